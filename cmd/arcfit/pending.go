@@ -1,0 +1,53 @@
+package main
+
+// The commands of design.md that are not built yet. Each has its help text
+// and an example of the intended use; running one says it is not built yet
+// and exits with status 2, so that no script mistakes it for a result.
+
+// pendingCommand returns a command that is planned but not built yet: it has
+// a help text and an example, and running it says so and exits with status 2.
+func pendingCommand(name, summary, usage, about, example string) *command {
+	return &command{name: name, summary: summary, usage: usage, about: about, example: example}
+}
+
+func fitCommand() *command {
+	return pendingCommand("fit", "fit motion models to the observations",
+		"arcfit fit OBS [--sites FILE] [--json | --csv]",
+		"Fits sky-plane polynomials, piecewise-linear motion and a two-body orbit by weighted least squares, prints the residuals, flags outliers, compares the models and saves the fit.",
+		"arcfit fit observations.csv --sites sites.csv")
+}
+
+func predictCommand() *command {
+	return pendingCommand("predict", "position and search region at a time",
+		"arcfit predict OBS|FIT --at TIME [--site SITE] [--json | --csv]",
+		"Gives the position at a time, for a site, with the search region the fit allows, drawn at a chosen sigma level. A target near the Sun is answered with a warning that pointing near the Sun can blind and destroy equipment.",
+		`arcfit predict observations.csv --at 2027-02-20T03:00:00Z --site "Alder Ridge" --sites sites.csv`)
+}
+
+func nightCommand() *command {
+	return pendingCommand("night", "where to point on a night",
+		"arcfit night OBS|FIT --date DATE [--site SITE] [--json | --csv]",
+		"Says where to point on the night that begins on the evening of DATE at the site: the window when the object is up in the dark, a table of positions and a chart. A target within 15 degrees of the Sun gets no pointing table unless asked for explicitly.",
+		`arcfit night observations.csv --date 2027-02-20 --site "Alder Ridge" --sites sites.csv`)
+}
+
+func planCommand() *command {
+	return pendingCommand("plan", "a night's schedule for many targets",
+		"arcfit plan TARGETS --date DATE [--site SITE] [--json | --csv]",
+		"Orders many targets into one night's schedule at a site.",
+		"arcfit plan targets.csv --date 2027-02-20 --site 44.52,-72.80,410")
+}
+
+func ephemCommand() *command {
+	return pendingCommand("ephem", "positions of the Sun, Moon, planets or an element set",
+		"arcfit ephem BODY --from TIME --to TIME --step DURATION [--site SITE] [--json | --csv]",
+		"Tabulates positions of the Sun, the Moon, a planet or an object given by orbital elements.",
+		"arcfit ephem elements.csv --from 2027-02-01T00:00:00Z --to 2027-03-01T00:00:00Z --step 1d")
+}
+
+func simulateCommand() *command {
+	return pendingCommand("simulate", "synthetic observations for teaching and what-if planning",
+		"arcfit simulate ELEMENTS --nights N --site SITE [--seed N]",
+		"Makes seeded synthetic observations of an object with known elements, for teaching and for planning what cadence a follow-up needs.",
+		"arcfit simulate elements.csv --nights 3 --site 44.52,-72.80,410 --seed 7")
+}
