@@ -36,13 +36,14 @@ func (a Angle) Normalized() Angle {
 	return Angle(r)
 }
 
-// Wrapped returns a reduced to (−π, π]. NaN and ±Inf give NaN.
+// Wrapped returns a reduced to (−π, π], keeping the full precision of small
+// angles of either sign. NaN and ±Inf give NaN.
 func (a Angle) Wrapped() Angle {
-	r := a.Normalized()
-	if r > math.Pi {
-		r -= twoPi
+	r := math.Remainder(float64(a), twoPi) // in [−π, π]
+	if r <= -math.Pi {
+		r += twoPi
 	}
-	return r
+	return Angle(r)
 }
 
 // AngleFromDegrees returns the angle of deg degrees.

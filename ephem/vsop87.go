@@ -210,8 +210,8 @@ func vsop87Tau(b Body, tdb astro.JD) (float64, error) {
 	}
 	d := tdb.DaysSinceJ2000()
 	if !(math.Abs(d) <= astro.DaysPerJulianMillennium) { // NaN fails too
-		return 0, fmt.Errorf("ephem: %v: %v is outside the VSOP87 span JD %.1f–%.1f TDB (J2000 ± 1000 years): %w",
-			b, tdb, vsop87FirstJD, vsop87LastJD, astro.ErrUnsupportedDate)
+		return 0, fmt.Errorf("ephem: %v: JD %.5f %v is outside the VSOP87 span, JD %.1f to %.1f TDB (J2000 ± 1000 years): %w",
+			b, tdb.Float(), tdb.Scale, vsop87FirstJD, vsop87LastJD, astro.ErrUnsupportedDate)
 	}
 	return d / astro.DaysPerJulianMillennium, nil
 }
@@ -233,7 +233,9 @@ func vsop87Tau(b Body, tdb astro.JD) (float64, error) {
 // The date is TDB; a TT date is accepted (TT − TDB < 2 ms, at most 60 m of the
 // Earth's motion). The span is J2000 ± 1000 Julian years of TDB, JD 2086295.0 to
 // 2816795.0 (about AD 1000–3000), inside the span over which Bretagnon & Francou
-// (1988) give VSOP87 a precision of 1″ or better for every planet. Outside it,
+// (1988) give VSOP87 a precision of 1″ or better for every planet (from
+// memory: 4000 years either side of J2000 for Mercury to Mars, less for Jupiter
+// and Saturn). Outside it,
 // or on another time scale, or for the Moon, the vectors are zero and err is
 // not nil (outside the span it wraps [astro.ErrUnsupportedDate]; for the Moon
 // [ErrNoSeries]).
@@ -269,7 +271,9 @@ func HeliocentricEclipticJ2000(b Body, tdb astro.JD) (pos, vel r3.Vec, err error
 
 // vsop87ToFK5 is the small rotation that takes VSOP87's ecliptic and dynamical
 // equinox J2000 to the ecliptic and equinox J2000 of the FK5: Meeus'
-// correction (Astronomical Algorithms, 2nd ed., ch. 32, eq. 32.3)
+// correction (Astronomical Algorithms, 2nd ed., ch. 32, eq. 32.3; the equation
+// number is from memory, the formula is the one applied in examples 25.b and
+// 33.a)
 //
 //	ΔL = −0.09033″ + 0.03916″ (cos L′ + sin L′) tan B
 //	ΔB = +0.03916″ (cos L′ − sin L′)
@@ -298,13 +302,15 @@ var vsop87ToICRS = EclipticJ2000ToICRS.Mul(vsop87ToFK5)
 //
 // Against epv00 (VSOP2000 fit to JPL DE405, in ICRS axes) the Earth's position is
 // within 1.9e-7 au (0.04″ at 1 au; 1.0e-7 au RMS) over 1900–2100, and its
-// velocity within 2 mm/s. Without C it is 5.6e-7 au. VSOP87 was fit to DE200,
-// and the two differ by a slow rotation (about 18 mas per century about the
-// ecliptic pole here) that no fixed rotation removes: the best fixed rotation
+// velocity within 10 mm/s (measured: 9.7 mm/s). Without C it is 5.6e-7 au;
+// with the IERS frame bias instead of C, 5.2e-7 au; with C and the FK5 to ICRS
+// rotation, 3.1e-7 au. VSOP87 was fit to JPL's DE200, and the two differ by a
+// slow rotation (about 18 mas per century about the ecliptic pole, by our own
+// least-squares fit) that no fixed rotation removes: the best fixed rotation
 // still leaves 1.6e-7 au. Span and errors as for [HeliocentricEclipticJ2000].
 //
 // Reference: Bretagnon & Francou (1988); Meeus, Astronomical Algorithms, 2nd
-// ed., ch. 32, eq. 32.3 (VSOP87 to FK5) and ch. 13 (ecliptic to equator);
+// ed., ch. 32 (VSOP87 to FK5) and ch. 13 (ecliptic to equator);
 // Mignard, F., Froeschlé, M., Astron. Astrophys. 354, 732–739 (2000) (FK5 and
 // the Hipparcos/ICRS frame).
 func HeliocentricICRS(b Body, tdb astro.JD) (pos, vel r3.Vec, err error) {

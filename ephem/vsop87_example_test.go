@@ -9,7 +9,8 @@ import (
 )
 
 // The Earth's distance from the Sun and its heliocentric direction in ICRS
-// axes on an invented observing night.
+// axes on an invented observing night. (ERFA's epv00 gives the same figures to
+// the digits printed.)
 func ExampleHeliocentricICRS() {
 	tdb := astro.NewJD(2461440.5, astro.TDB) // 2027 February 3, 0h TDB
 	pos, vel, err := ephem.HeliocentricICRS(ephem.Earth, tdb)
@@ -38,7 +39,7 @@ func ExampleHeliocentricSpherical() {
 	}
 	fmt.Printf("%v: L = %.4f°, B = %+.4f°, R = %.6f au\n", b, lon.Degrees(), lat.Degrees(), r)
 	// Output:
-	// X
+	// Mars: L = 143.5319°, B = +1.8428°, R = 1.661942 au
 }
 
 // A date outside the span of the series gives a one-line error.
@@ -46,5 +47,5 @@ func ExampleHeliocentricEclipticJ2000_outOfSpan() {
 	_, _, err := ephem.HeliocentricEclipticJ2000(ephem.Jupiter, astro.NewJD(2900000.5, astro.TDB))
 	fmt.Println(err)
 	// Output:
-	// X
+	// ephem: Jupiter: JD 2900000.50000 TDB is outside the VSOP87 span, JD 2086295.0 to 2816795.0 TDB (J2000 ± 1000 years): date outside the supported span
 }

@@ -55,7 +55,7 @@ func demoCommand() *command {
 // demoFlags binds the demo flags to o.
 func demoFlags(o *demoOptions, stderr io.Writer) *pflag.FlagSet {
 	fs := newFlagSet("demo", stderr)
-	fs.StringVar(&o.dir, "dir", "arcfit-demo", "directory to write the demo files into (made if missing)")
+	fs.StringVar(&o.dir, "dir", "arcfit-demo", "`dir`ectory to write the demo files into (made if missing)")
 	fs.BoolVar(&o.json, "json", false, "print the results as JSON")
 	return fs
 }

@@ -63,10 +63,10 @@ func inspectCommand() *command {
 // inspectFlags binds the inspect flags to o.
 func inspectFlags(o *inspectOptions, stderr io.Writer) *pflag.FlagSet {
 	fs := newFlagSet("inspect", stderr)
-	fs.StringVar(&o.sitesFile, "sites", "", "sites file, CSV name,lat_deg,lon_deg,height_m (WGS84, east positive)")
-	fs.StringVar(&o.site, "site", "", "site of rows that name none: a name in --sites, or lat_deg,lon_deg,height_m")
-	fs.StringVar(&o.format, "format", "", "observation format, csv or ades-psv (default: recognised from the content)")
-	fs.Float64Var(&o.sigmaArcsec, "sigma", 0, "1-sigma uncertainty in arcsec for rows without one (default 1)")
+	fs.StringVar(&o.sitesFile, "sites", "", "`file` of sites, CSV name,lat_deg,lon_deg,height_m (WGS84, east positive)")
+	fs.StringVar(&o.site, "site", "", "`site` of rows that name none: a name in --sites, or lat_deg,lon_deg,height_m")
+	fs.StringVar(&o.format, "format", "", "observation `format`, csv or ades-psv (default: recognised from the content)")
+	fs.Float64Var(&o.sigmaArcsec, "sigma", 0, "1-sigma uncertainty in `arcsec` for rows without one (default 1)")
 	fs.BoolVar(&o.json, "json", false, "print one JSON object: the summary and the observations as read")
 	fs.BoolVar(&o.csv, "csv", false, "print the observations as read, as CSV with a header")
 	return fs

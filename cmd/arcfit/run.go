@@ -221,7 +221,7 @@ func writeCommandHelp(w io.Writer, c *command) {
 	fmt.Fprintf(w, "\n\nUsage:\n  %s\n\n", c.usage)
 	fmt.Fprintln(w, wrap(c.about, 78))
 	if c.flags != nil {
-		fmt.Fprintf(w, "\nFlags:\n%s", c.flags().FlagUsages())
+		fmt.Fprintf(w, "\nFlags:\n%s", flagHelp(c.flags()))
 	} else {
 		fmt.Fprintln(w, "\nThis command is planned and not built yet; running it exits with status 2.")
 	}
@@ -246,6 +246,36 @@ func wrap(s string, width int) string {
 		}
 		b.WriteString(word)
 		n += l
+	}
+	return b.String()
+}
+
+// flagHelp lists the flags of fs, one a line: "-s, --name VALUE  usage
+// (default …)". The VALUE word is the back-quoted word of the usage text, as
+// pflag's UnquoteUsage finds it, or the flag's type; bool flags take none.
+func flagHelp(fs *pflag.FlagSet) string {
+	type line struct{ left, right string }
+	var ls []line
+	width := 0
+	fs.VisitAll(func(f *pflag.Flag) {
+		left := "    "
+		if f.Shorthand != "" {
+			left = "-" + f.Shorthand + ", "
+		}
+		left += "--" + f.Name
+		varname, usage := pflag.UnquoteUsage(f)
+		if f.Value.Type() != "bool" {
+			left += " " + strings.ToUpper(varname)
+			if f.DefValue != "" && f.DefValue != "0" && f.DefValue != "[]" {
+				usage += fmt.Sprintf(" (default %s)", f.DefValue)
+			}
+		}
+		ls = append(ls, line{left, usage})
+		width = max(width, len(left))
+	})
+	var b strings.Builder
+	for _, l := range ls {
+		fmt.Fprintf(&b, "  %-*s  %s\n", width, l.left, l.right)
 	}
 	return b.String()
 }
