@@ -225,6 +225,10 @@ func DateOfDayOfYear(year, n int) (month, day int) {
 	return 0, 0
 }
 
+// maxCalendarYear bounds the years DateTimeToJD accepts, so that day counts
+// stay exact.
+const maxCalendarYear = 1000000
+
 // DateTimeToJD returns the two-part Julian date of a Gregorian calendar date
 // and time of day on scale s: Day is the preceding midnight, Frac the fraction
 // of the day.
@@ -241,6 +245,9 @@ func DateOfDayOfYear(year, n int) (month, day int) {
 // the leap-second day convention is that of the IAU SOFA/ERFA library's
 // two-part UTC (SOFA Time Scale and Calendar Tools, 2021, §4.4, "quasi-JD").
 func DateTimeToJD(year, month, day, hour, minute int, second float64, s Scale) (JD, error) {
+	if year < -maxCalendarYear || year > maxCalendarYear {
+		return JD{}, fmt.Errorf("astro: year %d not in ±%d: %w", year, maxCalendarYear, ErrRange)
+	}
 	if month < 1 || month > 12 {
 		return JD{}, fmt.Errorf("astro: month %d not in 1–12: %w", month, ErrRange)
 	}

@@ -115,10 +115,14 @@ var DeltaTObservedUntil = func() float64 { _, last := deltaTMonthly.span(); retu
 //   - before 1657: the polynomials of Espenak & Meeus (2006); their uncertainty
 //     grows from about 20 s in 1600 to hours in antiquity;
 //   - 1657 to 1973 February: the half-yearly table of observed values,
-//     three-point interpolation (Meeus eq. 3.3);
+//     three-point interpolation (Meeus eq. 3.3); at 1657 the model steps by
+//     3.7 s from the polynomial to the table;
 //   - 1973 February to [DeltaTObservedUntil]: monthly values derived from IERS
-//     Earth-orientation data, linear interpolation; against IERS-B UT1 − UTC
-//     1973–2022 the difference is a few milliseconds (see deltat_test.go);
+//     Earth-orientation data, linear interpolation. Against the observed ΔT
+//     from IERS-B (astropy 5.2.1's bundled table), every 15 days 1962–2022,
+//     the model is within 43 ms before 1973 (the half-yearly table misses the
+//     seasonal variation) and 31 ms after (5 ms typical; the worst in late
+//     2022, where the package's monthly values are preliminary);
 //   - from there to [LeapSecondsValidUntil]: 32.184 s + (TAI − UTC), that is
 //     UT1 = UTC, wrong by less than 0.9 s (the bound on |UT1 − UTC| that defines
 //     UTC);

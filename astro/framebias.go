@@ -19,7 +19,7 @@ const (
 // with the passive rotations [RotX], [RotY], [RotZ].
 //
 // Accuracy: the rotation is about 23 mas; B agrees with the bias that ERFA's
-// bp06 derives from the Fukushima–Williams angles at J2000.0 to about 0.1 µas
+// bp06 derives from the Fukushima–Williams angles at J2000.0 to 0.3 µas
 // (see the tests).
 //
 // Reference: IERS Conventions (2010), IERS Technical Note 36, §5.5.4, eq. 5.33.

@@ -76,7 +76,7 @@ const arcsecondsPerRevolution = 1296000.0
 //	D  = 297°51′01.307″ + (1236ʳ + 307°06′41.328″) t −  6.891″ t² + 0.019″ t³
 //	Ω  = 125°02′40.280″ − (   5ʳ + 134°08′10.539″) t +  7.455″ t² + 0.008″ t³
 //
-// (Explanatory Supplement 1992, §3.222, eq. 3.222-2; the same values are in
+// (Explanatory Supplement 1992, §3.222; the same values are in
 // nutation.js 0.4.1.) The whole revolutions are dropped before the conversion
 // to keep the precision.
 func delaunay1980(t float64) (l, lp, f, d, om float64) {
@@ -103,7 +103,7 @@ func delaunay1980(t float64) (l, lp, f, d, om float64) {
 // those of the IAU 1980 theory.
 //
 // Input: tt, a TT Julian date. Output: Δψ and Δε in radians.
-// Accuracy: reproduces ERFA's nut80 to the µas level (see the tests); the IAU
+// Accuracy: reproduces ERFA's nut80 to 1e-10″ (see the tests); the IAU
 // 1980 theory itself departs from the IAU 2000A nutation by a few mas, up to
 // about 0.05″ with the frame-bias and precession-rate offsets it absorbed.
 //
@@ -139,7 +139,7 @@ func Nutation1980(tt JD) (dpsi, deps Angle) {
 // pnm06a).
 //
 // Reference: Explanatory Supplement to the Astronomical Almanac (1992),
-// §3.222, eq. 3.222-3; IERS Conventions (2010), ch. 5, eq. 5.30 (the same
+// §3.222; IERS Conventions (2010), ch. 5 (the same
 // rotation sequence); Meeus, Astronomical Algorithms, 2nd ed., ch. 23.
 func NutationMatrix(tt JD) Mat3 {
 	dpsi, deps := Nutation1980(tt)
@@ -154,8 +154,8 @@ func NutationMatrix(tt JD) Mat3 {
 //
 // Input: tt, a TT Julian date. Output: the rotation matrix.
 // Accuracy: mixing IAU 1980 nutation with IAU 2006 precession departs from
-// the IAU 2006/2000A matrix (ERFA's pnm06a) by at most about 0.03″ over
-// 1900–2100 (measured in the tests).
+// the IAU 2006/2000A matrix (ERFA's pnm06a) by at most 0.03″ over 1900–2100;
+// the measured worst case on 301 instants is 0.016″ (see the tests).
 //
 // Reference: IERS Conventions (2010), ch. 5, eq. 5.37 and §5.6; Explanatory
 // Supplement (2013), ch. 6.

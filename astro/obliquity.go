@@ -52,7 +52,7 @@ func MeanObliquity1980(tt JD) Angle {
 // with εA from [MeanObliquity2006] (IAU 2006) and Δε from [Nutation1980]
 // (IAU 1980 series). It is the obliquity that [NutationMatrix] rotates by.
 // Meeus' ε (ch. 22) uses ε0 of IAU 1980 instead; the two differ by
-// 0.042″ + 0.022″·T.
+// 0.042″ + 0.0218″·T.
 //
 // Input: tt, a TT Julian date. Output: ε in radians.
 // Accuracy: that of Δε, a few mas against IAU 2000A nutation.

@@ -40,8 +40,9 @@ func PrecessionAngles2006(tt JD) (zeta, z, theta Angle) {
 //
 // Input: tt, a TT Julian date. Output: the rotation matrix.
 // Accuracy: the P03 model itself is good to a few mas over 1900–2100; this
-// matrix reproduces ERFA's bp06 precession part to about 1e-15 (µas level; see
-// the tests).
+// matrix reproduces ERFA's bp06 precession part to 0.5 µas (largest element
+// difference 2.4e-12; ERFA builds it from the Fukushima–Williams angles) and
+// ERFA's pmat06, as P·B, to 0.8 µas (see the tests).
 //
 // Reference: IERS Conventions (2010), ch. 5, §5.6.4, eqs. 5.39–5.40;
 // Capitaine, Wallace & Chapront (2003), A&A 412, 567; Meeus, Astronomical

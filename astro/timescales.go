@@ -163,7 +163,10 @@ func UTCToUT1(utc JD, dut1Sec float64) JD {
 }
 
 // UT1ToUTC returns the UTC date of the UT1 date ut1, the inverse of
-// [UTCToUT1] for the same dut1Sec = UT1 − UTC. Beyond [LeapSecondsValidUntil]
+// [UTCToUT1] for the same dut1Sec = UT1 − UTC. Within about a second after a
+// leap second one UT1 instant and one offset fit two UTC readings; a negative
+// offset (the value before a positive leap second) picks the reading in the
+// leap-second day, a positive one the reading in the next day. Beyond [LeapSecondsValidUntil]
 // the value comes with a warning wrapping [ErrStaleTable] (a leap second could
 // change the day's length); a non-finite date or offset is an error wrapping
 // [ErrRange].
@@ -177,7 +180,14 @@ func UT1ToUTC(ut1 JD, dut1Sec float64) (JD, error) {
 		return JD{}, fmt.Errorf("astro: UT1−UTC %g s is not a usable offset: %w", dut1Sec, ErrRange)
 	}
 	mjd := utcDayMJD(n)
-	for _, d := range [...]int64{mjd, mjd - 1, mjd + 1} {
+	// Near a leap second two UTC readings map to the same UT1 with one offset.
+	// A negative UT1 − UTC is the value before a (positive) leap second, a
+	// positive one the value after it: take the earlier day first when it is negative.
+	order := [...]int64{mjd, mjd - 1, mjd + 1}
+	if dut1Sec < 0 {
+		order = [...]int64{mjd - 1, mjd, mjd + 1}
+	}
+	for _, d := range order {
 		sec := float64(mjd-d)*SecondsPerDay + (n.Frac*SecondsPerDay - dut1Sec)
 		length := utcDaySeconds(d)
 		if sec >= 0 && sec < length {
@@ -210,8 +220,8 @@ func TTToUT1(tt JD) (JD, error) {
 }
 
 // UT1ToTT returns the TT date of the UT1 date ut1, TT = UT1 + ΔT, with ΔT from
-// [DeltaT] at ut1's Julian epoch (ΔT changes by far less than a millisecond in
-// the minute between the two epochs). Warnings as [TTToUT1].
+// [DeltaT] at the Julian epoch of the TT result (found by one fixed-point step,
+// so that [TTToUT1] inverts it exactly). Warnings as [TTToUT1].
 //
 // Reference: Meeus, Astronomical Algorithms, 2nd ed., ch. 10, example 10.b.
 func UT1ToTT(ut1 JD) (JD, error) {
@@ -220,6 +230,8 @@ func UT1ToTT(ut1 JD) (JD, error) {
 	if err != nil && !errors.Is(err, ErrStaleTable) {
 		return JD{}, err
 	}
+	// Evaluate ΔT once more at the TT epoch, so that TTToUT1 inverts this exactly.
+	dt, err = DeltaT(UT1ToTTDeltaT(ut1, dt).JulianEpoch())
 	return UT1ToTTDeltaT(ut1, dt), err
 }
 

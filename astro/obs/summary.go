@@ -28,10 +28,13 @@ type Summary struct {
 	// observing on the same local date count as one night).
 	NightCount int `json:"night_count"`
 	// First and Last are the UTC times of the first and last used
-	// observation; ArcDays is Last − First in days and ArcHours the same in
+	// observation, FirstUTC and LastUTC the same in ISO 8601 to 0.01 s ("" for
+	// an empty set); ArcDays is Last − First in days and ArcHours the same in
 	// hours.
 	First    astro.JD `json:"-"`
 	Last     astro.JD `json:"-"`
+	FirstUTC string   `json:"first_utc"`
+	LastUTC  string   `json:"last_utc"`
 	ArcDays  float64  `json:"arc_days"`
 	ArcHours float64  `json:"arc_hours"`
 	// MeanSigmaArcsec is the mean over the used observations of the mean of
@@ -42,7 +45,8 @@ type Summary struct {
 	Nights []Night `json:"nights"`
 	// Warnings are what the summary found doubtful, in a fixed order: few
 	// observations, a single night, duplicates, nights without detectable
-	// motion, sites without a known longitude.
+	// motion, a whole set without motion ([Set.CheckMotion]), sites without a
+	// known longitude.
 	Warnings []Note `json:"warnings"`
 	// ReaderWarnings are the reader's own warnings, "file:line:col: warning: …".
 	ReaderWarnings []string `json:"reader_warnings"`
@@ -76,10 +80,13 @@ type Night struct {
 	// Count is the number of used observations in the night.
 	Count int `json:"count"`
 	// First and Last are the UTC times of the night's first and last
-	// observation; SpanMin is Last − First in minutes.
-	First   astro.JD `json:"-"`
-	Last    astro.JD `json:"-"`
-	SpanMin float64  `json:"span_min"`
+	// observation, FirstUTC and LastUTC the same in ISO 8601 to 0.01 s;
+	// SpanMin is Last − First in minutes.
+	First    astro.JD `json:"-"`
+	Last     astro.JD `json:"-"`
+	FirstUTC string   `json:"first_utc"`
+	LastUTC  string   `json:"last_utc"`
+	SpanMin  float64  `json:"span_min"`
 	// HasRate reports whether a rate could be measured (at least two
 	// observations at different times). When it is false the rate fields are
 	// NaN in Go and null in JSON.
@@ -195,6 +202,7 @@ func Summarize(set *Set, sites map[string]astro.Site) Summary {
 				s.Last = o.Time
 			}
 		}
+		s.FirstUTC, s.LastUTC = astro.FormatISO8601(s.First, 2), astro.FormatISO8601(s.Last, 2)
 		s.ArcDays = s.Last.Sub(s.First)
 		s.ArcHours = s.ArcDays * 24
 		s.MeanSigmaArcsec = sigmaSum / float64(len(used))
@@ -216,23 +224,24 @@ func Summarize(set *Set, sites map[string]astro.Site) Summary {
 			Msg: "all observations are from one night: an orbit from them is poorly constrained and its predictions drift fast"})
 	}
 	s.Warnings = append(s.Warnings, dups...)
-	anyMoving := false
 	for _, n := range s.Nights {
-		if n.Moving {
-			anyMoving = true
-		}
 		if n.HasRate && !n.Moving {
 			s.Warnings = append(s.Warnings, Note{Code: "no-motion",
 				Msg: fmt.Sprintf("night of %s at %s: no motion detected above the noise (%d observations over %.1f min)",
 					n.Date, siteLabel(n.Site), n.Count, n.SpanMin)})
 		}
 	}
-	if len(used) >= 2 && !anyMoving && !arcMoves(used) {
+	if len(used) >= 2 && set.CheckMotion() != nil {
 		s.Warnings = append(s.Warnings, Note{Code: "no-motion-arc",
-			Msg: "no motion detected above the noise between the first and the last observation"})
+			Msg: "no two positions of the whole set differ by more than the noise: a track without motion cannot be fitted"})
 	}
 	for _, u := range s.Sites {
-		if !u.Known {
+		switch {
+		case u.Known:
+		case u.Name == "":
+			s.Warnings = append(s.Warnings, Note{Code: "night-utc",
+				Msg: "observations without a site: their nights are counted from noon to noon UTC"})
+		default:
 			s.Warnings = append(s.Warnings, Note{Code: "night-utc",
 				Msg: fmt.Sprintf("site %s has no known position: its nights are counted from noon to noon UTC", siteLabel(u.Name))})
 		}
@@ -247,18 +256,6 @@ func siteLabel(name string) string {
 	}
 	return fmt.Sprintf("%q", name)
 }
-
-// arcMoves reports whether the first and last used observations differ by
-// more than 3 times the uncertainty of their separation (the two positions'
-// σ combined in quadrature, per coordinate and in two coordinates).
-func arcMoves(used []Observation) bool {
-	a, b := used[0], used[len(used)-1]
-	sep := astro.Separation(a.RA, a.Dec, b.RA, b.Dec)
-	sig := math.Sqrt((sq(a.SigmaRA)+sq(b.SigmaRA)+sq(a.SigmaDec)+sq(b.SigmaDec))/2) * math.Sqrt2
-	return float64(sep) > 3*sig
-}
-
-func sq(a astro.Angle) float64 { return float64(a) * float64(a) }
 
 // nightNumber returns the Julian day number of the local mean noon that begins
 // the night of the UTC instant t at east longitude lon: floor(t + lon/2π).
@@ -310,6 +307,7 @@ func groupNights(used []Observation, known map[string]astro.Site) []Night {
 				n.Last = o.Time
 			}
 		}
+		n.FirstUTC, n.LastUTC = astro.FormatISO8601(n.First, 2), astro.FormatISO8601(n.Last, 2)
 		n.SpanMin = n.Last.Sub(n.First) * 24 * 60
 		nightRate(&n, g)
 		nights = append(nights, n)

@@ -82,6 +82,10 @@ func TestSummarizeRate(t *testing.T) {
 			t.Errorf("Summarize: %s = %.9g, want %.9g (Δ %.3g; %s)", c.name, c.got, c.want, c.got-c.want, c.src)
 		}
 	}
+	// feb4 + 3 h and + 3 h 20 min, written by astro.FormatISO8601
+	if s.FirstUTC != "2027-02-04T03:00:00.00Z" || n.LastUTC != "2027-02-04T03:20:00.00Z" {
+		t.Errorf("Summarize: first_utc %q, night last_utc %q; want 2027-02-04T03:00:00.00Z, 2027-02-04T03:20:00.00Z", s.FirstUTC, n.LastUTC)
+	}
 	if !n.HasRate || !n.Moving {
 		t.Errorf("Summarize: has_rate %v moving %v, want both true (χ² = 2·(1/0.03536)² = 1600)", n.HasRate, n.Moving)
 	}

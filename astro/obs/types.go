@@ -55,6 +55,9 @@ func (w Warning) String() string {
 func position(file string, line, col int) string {
 	s := file
 	if s == "" {
+		if line == 0 {
+			return "obs: "
+		}
 		s = "<input>"
 	}
 	if line > 0 {

@@ -113,7 +113,7 @@ func runInspect(o inspectOptions, io streams) error {
 	case o.csv:
 		err = writeObservationsCSV(&buf, set)
 	default:
-		err = writeInspectText(&buf, s)
+		err = writeInspectText(&buf, s, set)
 	}
 	if err != nil {
 		return err
@@ -242,8 +242,10 @@ func writeObservationsCSV(w io.Writer, set *obs.Set) error {
 	return cw.Error()
 }
 
-// writeInspectText writes the summary for people.
-func writeInspectText(w io.Writer, s obs.Summary) error {
+// writeInspectText writes the summary for people. The reader's warnings about
+// a duplicate row or a set without motion are left out where the summary has
+// its own note for the same thing.
+func writeInspectText(w io.Writer, s obs.Summary, set *obs.Set) error {
 	p := func(format string, a ...any) { fmt.Fprintf(w, format, a...) }
 	format := s.Format
 	if format == "" {
@@ -263,12 +265,12 @@ func writeInspectText(w io.Writer, s obs.Summary) error {
 	if len(s.Sites) > 0 {
 		p("\nsites\n")
 		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-		fmt.Fprintln(tw, "  name\tobs\tlat_deg\tlon_deg\theight_m\t")
+		fmt.Fprintln(tw, "  name\tobs\tlat_deg\tlon_deg\theight_m")
 		for _, u := range s.Sites {
 			if u.Known {
-				fmt.Fprintf(tw, "  %s\t%d\t%+.4f\t%+.4f\t%.0f\t\n", siteName(u.Name), u.Count, u.LatDeg, u.LonDeg, u.HeightM)
+				fmt.Fprintf(tw, "  %s\t%d\t%+.4f\t%+.4f\t%.0f\n", siteName(u.Name), u.Count, u.LatDeg, u.LonDeg, u.HeightM)
 			} else {
-				fmt.Fprintf(tw, "  %s\t%d\t?\t?\t?\t\n", siteName(u.Name), u.Count)
+				fmt.Fprintf(tw, "  %s\t%d\t?\t?\t?\n", siteName(u.Name), u.Count)
 			}
 		}
 		if err := tw.Flush(); err != nil {
@@ -279,7 +281,7 @@ func writeInspectText(w io.Writer, s obs.Summary) error {
 	if len(s.Nights) > 0 {
 		p("\nnights (date of the evening, local mean time at the site; * = noon to noon UTC)\n")
 		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-		fmt.Fprintln(tw, "  date\tsite\tobs\tfirst_utc\tspan_min\trate_\"/min\t±\"/min\tpa_deg\ttravelled_\"\tmoving\t")
+		fmt.Fprintln(tw, "  date\tsite\tobs\tfirst_utc\tspan_min\trate_\"/min\t±\"/min\tpa_deg\ttravelled_\"\tmoving")
 		for _, n := range s.Nights {
 			date := n.Date
 			if !n.LocalTime {
@@ -296,7 +298,7 @@ func writeInspectText(w io.Writer, s obs.Summary) error {
 					moving = "yes"
 				}
 			}
-			fmt.Fprintf(tw, "  %s\t%s\t%d\t%s\t%.1f\t%s\t%s\t%s\t%s\t%s\t\n", date, siteName(n.Site), n.Count,
+			fmt.Fprintf(tw, "  %s\t%s\t%d\t%s\t%.1f\t%s\t%s\t%s\t%s\t%s\n", date, siteName(n.Site), n.Count,
 				astro.FormatISO8601(n.First, 0), n.SpanMin, rate, sig, pa, trav, moving)
 		}
 		if err := tw.Flush(); err != nil {
@@ -305,13 +307,30 @@ func writeInspectText(w io.Writer, s obs.Summary) error {
 	}
 
 	p("\nwarnings\n")
-	if len(s.Warnings) == 0 && len(s.ReaderWarnings) == 0 {
+	noted := map[int]bool{}
+	noMotion := false
+	for _, n := range s.Warnings {
+		switch n.Code {
+		case "duplicate":
+			noted[n.Line] = true
+		case "no-motion-arc", "few-observations":
+			noMotion = true
+		}
+	}
+	var reader []string
+	for _, r := range set.Warnings {
+		if r.Line > 0 && noted[r.Line] || r.Line == 0 && noMotion && strings.Contains(r.Msg, obs.ErrNoMotion.Error()) {
+			continue
+		}
+		reader = append(reader, r.String())
+	}
+	if len(s.Warnings) == 0 && len(reader) == 0 {
 		p("  none\n")
 	}
 	for _, n := range s.Warnings {
 		p("  %s\n", n.Msg)
 	}
-	for _, r := range s.ReaderWarnings {
+	for _, r := range reader {
 		p("  %s\n", r)
 	}
 	return nil
