@@ -47,48 +47,63 @@ func degToRad(deg float64) float64 {
 var moonLightTimeLon = astro.Angle(moon47MeanLongitude[1]/(astro.DaysPerJulianCentury*astro.SecondsPerDay)*
 	moon47MeanDistanceKm/astro.SpeedOfLightKmS) * astro.Degree
 
+// moon47Parts holds the intermediate quantities of Meeus' ch. 47 at one
+// instant: the arguments (radians, reduced), E, and the sums Σl, Σb (1e-6
+// degree) and Σr (1e-3 km), the additive terms included.
+type moon47Parts struct {
+	lp, d, m, mp, f float64
+	a               [3]float64
+	e               float64
+	sl, sb, sr      float64
+}
+
+// moon47Evaluate evaluates Meeus' ch. 47 series at T Julian centuries of TT
+// from J2000.
+func moon47Evaluate(t float64) moon47Parts {
+	var p moon47Parts
+	p.lp = degToRad(horner(moon47MeanLongitude[:], t))
+	p.d = degToRad(horner(moon47Elongation[:], t))
+	p.m = degToRad(horner(moon47SunAnomaly[:], t))
+	p.mp = degToRad(horner(moon47MoonAnomaly[:], t))
+	p.f = degToRad(horner(moon47ArgLatitude[:], t))
+	p.e = horner(moon47Eccentricity[:], t)
+	for i, c := range moon47A {
+		p.a[i] = degToRad(c[0] + c[1]*t)
+	}
+	eFactor := [3]float64{1, p.e, p.e * p.e}
+	for _, r := range moon47LonDist {
+		arg := float64(r.d)*p.d + float64(r.m)*p.m + float64(r.mp)*p.mp + float64(r.f)*p.f
+		s, c := math.Sincos(arg)
+		k := eFactor[abs8(r.m)]
+		p.sl += r.s * k * s
+		p.sr += r.c * k * c
+	}
+	for _, r := range moon47Lat {
+		arg := float64(r.d)*p.d + float64(r.m)*p.m + float64(r.mp)*p.mp + float64(r.f)*p.f
+		p.sb += r.s * eFactor[abs8(r.m)] * math.Sin(arg)
+	}
+	add := func(x moon47Addend) float64 {
+		arg := float64(x.a1)*p.a[0] + float64(x.a2)*p.a[1] + float64(x.a3)*p.a[2] +
+			float64(x.lp)*p.lp + float64(x.mp)*p.mp + float64(x.f)*p.f
+		return x.coef * math.Sin(arg)
+	}
+	for _, x := range moon47AddLon {
+		p.sl += add(x)
+	}
+	for _, x := range moon47AddLat {
+		p.sb += add(x)
+	}
+	return p
+}
+
 // moonMeeus47 evaluates Meeus' ch. 47 series as published at T Julian
 // centuries of TT from J2000: longitude and latitude on the mean ecliptic and
 // equinox of date, with the light time included in L′, and the distance in km.
 func moonMeeus47(t float64) (lon, lat astro.Angle, distKm float64) {
-	lp := degToRad(horner(moon47MeanLongitude[:], t))
-	d := degToRad(horner(moon47Elongation[:], t))
-	m := degToRad(horner(moon47SunAnomaly[:], t))
-	mp := degToRad(horner(moon47MoonAnomaly[:], t))
-	f := degToRad(horner(moon47ArgLatitude[:], t))
-	e := horner(moon47Eccentricity[:], t)
-	var a [3]float64
-	for i, c := range moon47A {
-		a[i] = degToRad(c[0] + c[1]*t)
-	}
-	eFactor := [3]float64{1, e, e * e}
-
-	var sl, sr, sb float64
-	for _, r := range moon47LonDist {
-		arg := float64(r.d)*d + float64(r.m)*m + float64(r.mp)*mp + float64(r.f)*f
-		s, c := math.Sincos(arg)
-		k := eFactor[abs8(r.m)]
-		sl += r.s * k * s
-		sr += r.c * k * c
-	}
-	for _, r := range moon47Lat {
-		arg := float64(r.d)*d + float64(r.m)*m + float64(r.mp)*mp + float64(r.f)*f
-		sb += r.s * eFactor[abs8(r.m)] * math.Sin(arg)
-	}
-	add := func(x moon47Addend) float64 {
-		arg := float64(x.a1)*a[0] + float64(x.a2)*a[1] + float64(x.a3)*a[2] +
-			float64(x.lp)*lp + float64(x.mp)*mp + float64(x.f)*f
-		return x.coef * math.Sin(arg)
-	}
-	for _, x := range moon47AddLon {
-		sl += add(x)
-	}
-	for _, x := range moon47AddLat {
-		sb += add(x)
-	}
-	lon = (astro.Angle(lp) + astro.Angle(sl*1e-6)*astro.Degree).Normalized()
-	lat = astro.Angle(sb*1e-6) * astro.Degree
-	return lon, lat, moon47MeanDistanceKm + sr*1e-3
+	p := moon47Evaluate(t)
+	lon = (astro.Angle(p.lp) + astro.Angle(p.sl*1e-6)*astro.Degree).Normalized()
+	lat = astro.Angle(p.sb*1e-6) * astro.Degree
+	return lon, lat, moon47MeanDistanceKm + p.sr*1e-3
 }
 
 func abs8(x int8) int8 {

@@ -122,9 +122,11 @@ func TestSummarizePositionAngles(t *testing.T) {
 			ob(3, 3.0+10.0/60, c.dra, d0+c.ddec, east.Name),
 		}}
 		n := obs.Summarize(set, sitesMap()).Nights[0]
-		// Tolerance: the tangent plane and great-circle PA differ from the
-		// flat-sky hand values by about ρ·tan δ/2 ≈ 1e-4 × 1.7 × 0.5 rad of PA
-		// for 10″ at Dec 60°, about 0.005°; 0.01° and 1e-5″/min cover it.
+		// Tolerance: the hand values are flat-sky; on the sphere the track
+		// between two points of one parallel leaves at PA 90° − Δα sin δ/2
+		// (Smart 1977, ch. I, for small Δα), 20″ × 0.866/2 = 8.7″ = 0.0024° at
+		// Dec 60°, and the rate differs by a relative 1e-9. 0.01° and
+		// 1e-5″/min cover that and catch a missing cos δ (a factor 2).
 		if math.Abs(n.RateArcsecPerMin-c.wantRate) > 1e-5 {
 			t.Errorf("%s: rate = %.9g ″/min, want %.9g (%s)", c.name, n.RateArcsecPerMin, c.wantRate, c.src)
 		}

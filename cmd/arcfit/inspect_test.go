@@ -341,3 +341,38 @@ func TestInspectWarnings(t *testing.T) {
 		t.Errorf("inspect: used %d, warnings %v; want 2 and few-observations single-night duplicate", got.Used, codes)
 	}
 }
+
+// TestInspectSiteFlag checks --site as a name from the sites file (rows
+// without a site take it, and their nights become local: 03:00 UTC at
+// 101.528° W is 20:14 local mean time on the 3rd) and as an unknown name.
+func TestInspectSiteFlag(t *testing.T) {
+	_, sitesPath := demoFiles(t)
+	p := filepath.Join(t.TempDir(), "nosite.csv")
+	body := "time,ra,dec,sigma\n" +
+		"2027-02-04T03:00:00Z,09:00:00.000,+20:00:00.00,0.5\n" +
+		"2027-02-04T03:30:00Z,09:00:02.000,+20:00:10.00,0.5\n"
+	if err := os.WriteFile(p, []byte(body), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, out, errs := runArgs(t, "inspect", p, "--sites", sitesPath, "--site", "Alder Ridge", "--json")
+	if code != exitOK {
+		t.Fatalf("inspect --site name: code %d stderr %q", code, errs)
+	}
+	var got struct {
+		Nights []struct {
+			Date  string `json:"date"`
+			Site  string `json:"site"`
+			Local bool   `json:"local_mean_time"`
+		} `json:"nights"`
+	}
+	if err := json.Unmarshal([]byte(out), &got); err != nil {
+		t.Fatal(err)
+	}
+	if len(got.Nights) != 1 || got.Nights[0].Site != "Alder Ridge" || !got.Nights[0].Local || got.Nights[0].Date != "2027-02-03" {
+		t.Errorf("inspect --site name: nights %+v, want one local night of 2027-02-03 at Alder Ridge", got.Nights)
+	}
+	code, out, errs = runArgs(t, "inspect", p, "--sites", sitesPath, "--site", "Nowhere")
+	if code != exitUsage || out != "" || lines(errs) != 1 || !strings.Contains(errs, `--site "Nowhere"`) {
+		t.Errorf("inspect --site unknown: code %d stdout %q stderr %q", code, out, errs)
+	}
+}

@@ -394,9 +394,9 @@ def main():
         f.write("# Element sets (invented; ecliptic J2000; angles deg):\n")
         for el in ELEMENTS:
             if el[1] == "M":
-                f.write("#   elements %s M epoch_tt=%.5f a=%.6f e=%.6f i=%.6f node=%.6f peri=%.6f m=%.6f\n" % el)
+                f.write("#   elements %s M epoch_tt=%.5f a=%.6f e=%.6f i=%.6f node=%.6f peri=%.6f m=%.6f\n" % ((el[0],) + el[2:]))
             else:
-                f.write("#   elements %s Q tp_tt=%.5f q=%.6f e=%.6f i=%.6f node=%.6f peri=%.6f\n" % el)
+                f.write("#   elements %s Q tp_tt=%.5f q=%.6f e=%.6f i=%.6f node=%.6f peri=%.6f\n" % ((el[0],) + el[2:]))
         f.write("# Rows with key 'tt' (1900-1971) are geocentric and keyed by TT: no UTC, no UT1.\n")
         f.write("# columns: key body site utc_day utc_frac dut1_s tt_day tt_frac tdb_day tdb_frac "
                 "ra_deg dec_deg raapp_deg decapp_deg delta_au r_au tau_d elong_deg phase_deg "
