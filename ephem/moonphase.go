@@ -49,7 +49,7 @@ var (
 // synodic month of 29.530589 d (the rate of D in Meeus' eq. 47.2,
 // 445267.1114°/century, is the same to 1e-8); only the starting guesses of the
 // solver use it.
-var meanSynodicRate = degToRad(moon47Elongation[1]) / astro.DaysPerJulianCentury
+var meanSynodicRate = moon47Elongation[1] * (math.Pi / 180) / astro.DaysPerJulianCentury
 
 // sunApparentLonOfDate returns the Sun's apparent geocentric ecliptic longitude
 // on the mean equinox of date (no nutation): the VSOP87 Earth turned to the
@@ -70,13 +70,15 @@ func sunApparentLonOfDate(tt astro.JD) (astro.Angle, error) {
 
 // moonElongation returns the Moon's apparent longitude less the Sun's, both on
 // the ecliptic of date (nutation cancels), wrapped to (−π, π] after removing
-// target.
+// target. The Moon is the geometric one at tt − τ, τ = Δ/c, its light time at
+// its actual distance (rather than the mean light time of Meeus' L′).
 func moonElongation(tt astro.JD, target astro.Angle) (astro.Angle, error) {
 	sun, err := sunApparentLonOfDate(tt)
 	if err != nil {
 		return 0, err
 	}
-	moon, _, _ := moonMeeus47(tt.CenturiesSinceJ2000())
+	_, _, distKm := moonMeeus47(tt.CenturiesSinceJ2000())
+	moon, _, _ := MoonEclipticOfDate(tt.AddSeconds(-distKm / astro.SpeedOfLightKmS))
 	return (moon - sun - target).Wrapped(), nil
 }
 
@@ -115,7 +117,7 @@ func solvePhase(t astro.JD, target astro.Angle) (astro.JD, error) {
 // [from, to), in time order. Each instant is the one at which the Moon's
 // apparent geocentric ecliptic longitude exceeds the Sun's by 0°, 90°, 180° or
 // 270° (Meeus' definition, ch. 49), solved from the Moon of
-// [MoonApparentEclipticOfDate] (Meeus ch. 47, light time included) and the
+// [MoonEclipticOfDate] (Meeus ch. 47) at tt − Δ/c, its light time, and the
 // Sun's apparent longitude from VSOP87 with the aberration of Meeus eq. 25.10;
 // the nutation cancels. This is the solving route, not Meeus' ch. 49 series.
 //

@@ -54,8 +54,8 @@ func init() {
 // (the definition of the barycentre; common practice), with the IAU 2009 mass
 // ratios M☉/m_i (Luzum et al. 2011; the Earth with the Moon, placed at the
 // Earth's centre, which moves the result by 1e-10 au). Each planet's series is
-// cut where a term would move the Sun by less than 2e-10 au (a few hundred
-// terms in all). Pluto, the asteroids and the Kuiper belt are left out.
+// cut where a term would move the Sun by less than 2e-9 au (about a thousand
+// terms in all, 3e-8 au at most from the full series over 1900–2100). Pluto, the asteroids and the Kuiper belt are left out.
 //
 // The span is that of [HeliocentricEclipticJ2000]; outside it, or for a date
 // on another scale, the result is the zero vector (the Sun taken at the
