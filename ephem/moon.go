@@ -134,8 +134,9 @@ func abs8(x int8) int8 {
 // Accuracy: Meeus' 60+60 terms give about 10″ in λ and 4″ in β (Meeus, p. 337);
 // against the fuller ELP/MPP02 the series is off by 2.9″ RMS, 18″ at worst
 // (ERFA's notes on its own implementation of the same series).
-// The tests compare with ERFA's moon98, the same series: the agreement is
-// given in the test file and the report (well below 0.1″ and 1 m).
+// Against ERFA's moon98, the same series, over 300 dates 1900–2100: 0.039″ in
+// λ (a constant: moon98's light-time constant is 0.74″, this one 0.705″),
+// 0.0002″ in β, 4 mm in distance (TestMoonERFA).
 //
 // Reference: Meeus, Astronomical Algorithms, 2nd ed. (1998), ch. 47, eqs.
 // 47.1–47.6, Tables 47.A, 47.B; Chapront-Touzé, M., Chapront, J., "The lunar
