@@ -205,9 +205,11 @@ func angleBetween(a, b r3.Vec) astro.Angle {
 // warning (leap-second table stale, UTC before 1972 read as UT) comes with a
 // valid result and wraps [astro.ErrStaleTable] or [astro.ErrUTCBefore1972].
 //
-// Accuracy: the Earth's VSOP87 position (0.04″ at 1 au, see
-// [HeliocentricICRS]); against an ERFA computation with epv00 the astrometric
-// place of bodies 0.3–20 au away agrees to 0.02″ (measured in the tests).
+// Accuracy: that of the Earth's VSOP87 position (within 1.9e-7 au of ERFA's
+// epv00, see [HeliocentricICRS]), which subtends about 0.02″/Δ (Δ in au) at
+// worst in practice: against an ERFA computation with epv00 and the same
+// two-body positions the astrometric place agrees to 0.032″ for Δ ≥ 1 au and
+// 0.096″ at Δ = 0.23 au (measured in the tests).
 //
 // Reference: Explanatory Supplement to the Astronomical Almanac (2013), ch. 7
 // (astrometric place, light time); Meeus, Astronomical Algorithms, 2nd ed.,
@@ -271,9 +273,10 @@ func TopocentricAstrometricDirection(helioPosAtTDB func(tdb astro.JD) (r3.Vec, e
 // air (see [astro.CheckRefractionConditions]).
 //
 // Accuracy (against ERFA, testdata/erfa_places.txt; see the tests): for
-// element-set bodies (the same two-body positions) the astrometric place
-// within 0.03″ and the apparent place within 0.06″; the unrefracted altitude
-// within 0.1″; the refraction about 4 % above ERFA's refco model.
+// element-set bodies (the same two-body positions) the astrometric and
+// apparent places, the unrefracted altitude and the azimuth within 0.1″ for
+// Δ ≥ 0.23 au (0.03″ for Δ ≥ 1 au; the Earth's position error over Δ
+// below that); the refraction about 5 % above ERFA's refco model.
 //
 // Reference: Explanatory Supplement to the Astronomical Almanac (2013),
 // ch. 7; Meeus, Astronomical Algorithms, 2nd ed., ch. 13, 16, 33 and 41
@@ -373,8 +376,10 @@ func refraction(alt astro.Angle, o Observer) astro.Angle {
 // the Earth's plus [MoonGeocentricICRS]. Mag is NaN. The Earth is refused.
 //
 // Accuracy (against ERFA, see the tests): the Sun's astrometric and apparent
-// places within 0.05″ of epv00; the planets within the 1″ of ERFA's plan94,
-// the reference itself; the Moon that of Meeus' ch. 47 series (about 10″).
+// places within 0.05″ of epv00; the planets that of VSOP87 (Venus within
+// 0.002 s and 0.001″ of Meeus' example 33.a; ERFA's plan94, good only to
+// 4″–87″ heliocentric, agrees within its stated errors); the Moon that of
+// Meeus' ch. 47 series (about 10″).
 //
 // Reference: as [Astrometric]; Bretagnon & Francou (1988) for VSOP87.
 func PlaceOfBody(b Body, utc astro.JD, o Observer) (Place, error) {
@@ -435,7 +440,8 @@ const DefaultSlopeG = 0.15
 // Errors: those of [Astrometric] and of [Elements.Validate].
 //
 // Accuracy: against an independent two-body ERFA computation (see the tests),
-// within 0.03″ in the astrometric place for e = 0.2, 0.6, 0.97 and 1.
+// for e = 0.2, 0.6, 0.97 and 1, within 0.032″ in the astrometric place for
+// Δ ≥ 1 au and 0.096″ at Δ = 0.23 au (see [Astrometric]).
 //
 // Reference: as [Astrometric]; Meeus, Astronomical Algorithms, 2nd ed.,
 // ch. 33 (elliptic motion, light time).

@@ -74,7 +74,7 @@ func TestPlacesAgainstERFA(t *testing.T) {
 	tab := readPlaceTable(t)
 	type worst struct {
 		pos, app, alt, az, delta, elong, phase, moon, refr float64
-		n                                              int
+		n                                                  int
 	}
 	worsts := map[string]*worst{}
 	for _, row := range tab.rows {
