@@ -70,8 +70,8 @@ const (
 // elementsColumns are the column names, indexed by the ec constants.
 var elementsColumns = [ecCount]string{"name", "epoch_tt", "a_au", "e", "i_deg", "node_deg", "peri_deg", "m_deg", "q_au", "tp_tt", "h", "g"}
 
-// elementsHeaderWant is what a header must name.
-const elementsHeaderWant = "a header naming name,epoch_tt,a_au,e,i_deg,node_deg,peri_deg,m_deg[,h,g] " +
+// elementsHeaderForms are the two forms of the header.
+const elementsHeaderForms = "name,epoch_tt,a_au,e,i_deg,node_deg,peri_deg,m_deg[,h,g] " +
 	"or name,q_au,e,i_deg,node_deg,peri_deg,tp_tt[,h,g]"
 
 // bomUTF8 is the byte order mark some editors put at the start of a file.
@@ -274,7 +274,7 @@ func (er *elementsReader) read(data string) ([]Elements, error) {
 		sets = append(sets, el)
 	}
 	if headerLine == 0 {
-		return nil, &obs.ParseError{File: er.file, Line: lineNo, Want: elementsHeaderWant, Hint: "the file holds no header and no element sets", Err: obs.ErrHeader}
+		return nil, &obs.ParseError{File: er.file, Line: lineNo, Want: "a header naming " + elementsHeaderForms, Hint: "the file holds no header and no element sets", Err: obs.ErrHeader}
 	}
 	if len(sets) == 0 {
 		return nil, &obs.ParseError{File: er.file, Line: lineNo, Want: "at least one element set after the header on line " + strconv.Itoa(headerLine), Err: ErrNoElements}
@@ -306,7 +306,7 @@ func (er *elementsReader) header(line string, lineNo int, fields []csvField, idx
 		idx[k] = i + 1
 	}
 	missing := func(k int, why string) error {
-		return er.perr(line, lineNo, 0, "", elementsHeaderWant+"; "+elementsColumns[k]+" is missing"+why, line, "", obs.ErrHeader)
+		return er.perr(line, lineNo, 0, "", "a column "+elementsColumns[k]+why, "", "the header names "+elementsHeaderForms, obs.ErrHeader)
 	}
 	for _, k := range []int{ecName, ecE, ecI, ecNode, ecPeri} {
 		if idx[k] == 0 {
@@ -316,17 +316,17 @@ func (er *elementsReader) header(line string, lineNo int, fields []csvField, idx
 	hasA, hasQ := idx[ecA] != 0 || idx[ecM] != 0, idx[ecQ] != 0 || idx[ecTp] != 0
 	switch {
 	case !hasA && !hasQ:
-		return missing(ecA, " (and q_au: give a_au,m_deg or q_au,tp_tt)")
+		return missing(ecA, " and m_deg, or q_au and tp_tt")
 	case idx[ecA] != 0 && idx[ecM] == 0:
-		return missing(ecM, " (a_au goes with m_deg)")
+		return missing(ecM, ": a_au goes with m_deg")
 	case idx[ecM] != 0 && idx[ecA] == 0:
-		return missing(ecA, " (m_deg goes with a_au)")
+		return missing(ecA, ": m_deg goes with a_au")
 	case idx[ecQ] != 0 && idx[ecTp] == 0:
-		return missing(ecTp, " (q_au goes with tp_tt)")
+		return missing(ecTp, ": q_au goes with tp_tt")
 	case idx[ecTp] != 0 && idx[ecQ] == 0:
-		return missing(ecQ, " (tp_tt goes with q_au)")
+		return missing(ecQ, ": tp_tt goes with q_au")
 	case hasA && idx[ecEpoch] == 0:
-		return missing(ecEpoch, " (the epoch of m_deg)")
+		return missing(ecEpoch, ": the epoch of m_deg")
 	}
 	return nil
 }

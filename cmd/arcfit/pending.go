@@ -24,25 +24,11 @@ func predictCommand() *command {
 		`arcfit predict observations.csv --at 2027-02-20T03:00:00Z --site "Alder Ridge" --sites sites.csv`)
 }
 
-func nightCommand() *command {
-	return pendingCommand("night", "where to point on a night",
-		"arcfit night OBS|FIT --date DATE [--site SITE] [--json | --csv]",
-		"Says where to point on the night that begins on the evening of DATE at the site: the window when the object is up in the dark, a table of positions and a chart. A target within 15 degrees of the Sun gets no pointing table unless asked for explicitly.",
-		`arcfit night observations.csv --date 2027-02-20 --site "Alder Ridge" --sites sites.csv`)
-}
-
 func planCommand() *command {
 	return pendingCommand("plan", "a night's schedule for many targets",
 		"arcfit plan TARGETS --date DATE [--site SITE] [--json | --csv]",
 		"Orders many targets into one night's schedule at a site.",
 		"arcfit plan targets.csv --date 2027-02-20 --site 44.52,-72.80,410")
-}
-
-func ephemCommand() *command {
-	return pendingCommand("ephem", "positions of the Sun, Moon, planets or an element set",
-		"arcfit ephem BODY --from TIME --to TIME --step DURATION [--site SITE] [--json | --csv]",
-		"Tabulates positions of the Sun, the Moon, a planet or an object given by orbital elements.",
-		"arcfit ephem elements.csv --from 2027-02-01T00:00:00Z --to 2027-03-01T00:00:00Z --step 1d")
 }
 
 func simulateCommand() *command {

@@ -1,0 +1,321 @@
+package fit
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"arcfit/astro"
+)
+
+// ModelRow is one line of the model comparison.
+type ModelRow struct {
+	// Model is the model's name (poly1, poly2, poly3, piecewise); Spec the
+	// model itself, with the knots of a piecewise model.
+	Model string
+	Spec  Model
+	// NumParams is the number of fitted parameters (motion coefficients and,
+	// when fitted, the inverse distance).
+	NumParams int
+	// RMSArcsec is the fit's pooled RMS residual (RA·cos δ and Dec) of the
+	// used, unflagged observations; Chi2DoF its χ²/dof; BIC its [BIC].
+	RMSArcsec, Chi2DoF, BIC float64
+	// CVErrorArcsec is the leave-one-night-out cross-validated RMS miss
+	// ([CrossValidate]), NaN when fewer than 3 nights or no fold could be
+	// fitted; CVSEArcsec its standard error, CVNormRMS the normalised RMS
+	// miss, CV the whole cross-validation.
+	CVErrorArcsec float64
+	CVSEArcsec    float64
+	CVNormRMS     float64
+	CV            CrossValidation
+	// Pred is the prediction at the first requested time, nil if none was
+	// requested or the model could not be fitted; Preds holds one per
+	// requested time.
+	Pred  *Prediction
+	Preds []Prediction
+	// Err says why the model could not be fitted or predicted, "" when it
+	// was.
+	Err string
+	// Chosen marks the row picked by the auto rule.
+	Chosen bool
+	// Solution is the model's fit of the whole track (nil when Err is set).
+	Solution *Solution
+}
+
+// Comparison is the result of fitting and comparing the candidate models.
+type Comparison struct {
+	Rows []ModelRow
+	// Chosen is the name of the chosen model, Reason why, in plain words.
+	Chosen string
+	Reason string
+	// Solution is the chosen model's fit.
+	Solution *Solution
+	// HorizonDays is the validity horizon ([Horizon]): how far beyond either
+	// end of the arc, in days, the chosen model's predictions are trusted;
+	// HorizonBeforeDays and HorizonAfterDays are the two ends' horizons
+	// (HorizonDays is the smaller). HorizonRule says how they were found.
+	HorizonDays       float64
+	HorizonBeforeDays float64
+	HorizonAfterDays  float64
+	HorizonRule       string
+	// Notes are remarks on the comparison (skipped models, failed folds).
+	Notes []string
+}
+
+// CandidateModels returns the models to compare for the track, with the
+// default [Settings] for the knot selection; see [CandidateModelsWith].
+func CandidateModels(tr *Track) []Model { return CandidateModelsWith(tr, Settings{}) }
+
+// CandidateModelsWith returns the models to compare for the track: poly1,
+// poly2 and poly3 as far as the data allow them — a model is allowed when the
+// 2·n equations of the n used observations exceed its motion parameters plus
+// one (the inverse distance), leaving at least one degree of freedom — and,
+// when the track has a gap between nights, the piecewise-linear model with
+// the knots [SelectKnots] keeps under the settings s (all gap knots when the
+// selection cannot fit any, so that the comparison shows why).
+func CandidateModelsWith(tr *Track, s Settings) []Model {
+	n := tr.NumUsed()
+	var out []Model
+	for d := 1; d <= 3; d++ {
+		m := Poly(d)
+		if 2*n > m.NumMotionParams()+1 {
+			out = append(out, m)
+		}
+	}
+	knots := GapKnots(tr)
+	if len(knots) == 0 {
+		return out
+	}
+	m, _, err := SelectKnots(tr, s)
+	if err != nil {
+		m = Piecewise(knots)
+	}
+	return append(out, m)
+}
+
+// ErrNoModel reports a comparison in which no model could be fitted.
+var ErrNoModel = errors.New("fit: no model could be fitted")
+
+// Compare fits every model to the track with the settings s, scores it by
+// its RMS residual, χ²/dof, [BIC] and leave-one-night-out cross-validated
+// error ([CrossValidate]), predicts it at the times at for the site (nil for
+// the geocentre), picks one by the auto rule and derives the validity
+// horizon ([Horizon]), setting BeyondHorizon and HorizonDays of every
+// prediction.
+//
+// The auto rule, in plain words:
+//
+//   - When cross-validation is available for at least two models (three or
+//     more nights), take the lowest cross-validated error; then choose the
+//     simplest model (fewest parameters; among equals, the lower error) whose
+//     cross-validated error is within one standard error of that lowest one —
+//     the "one-standard-error rule", which treats differences smaller than
+//     the cross-validation's own scatter as ties and gives them to the
+//     simpler model.
+//   - Otherwise choose the lowest BIC; models within 1e-9 of it (relative)
+//     tie and go to the simpler.
+//
+// Comparison.Reason says which rule decided, with the numbers, and whether
+// BIC agrees. Models that cannot be fitted keep a row with Err set. When no
+// model can be fitted Compare returns the error of the simplest (a
+// *TooFewError for too few observations says which models the data allow).
+//
+// Reference: the one-standard-error rule, Breiman, L., Friedman, J. H.,
+// Olshen, R. A., Stone, C. J., Classification and Regression Trees,
+// Wadsworth (1984), §3.4.3; Hastie, Tibshirani & Friedman, The Elements of
+// Statistical Learning, 2nd ed. (2009), §7.10.1. BIC: Schwarz (1978).
+func Compare(tr *Track, models []Model, s Settings, at []astro.JD, site *astro.Site) (*Comparison, error) {
+	if tr == nil {
+		return nil, errors.New("fit: no track to compare models on")
+	}
+	if len(models) == 0 {
+		return nil, errors.New("fit: no models to compare")
+	}
+	c := &Comparison{HorizonDays: math.NaN(), HorizonBeforeDays: math.NaN(), HorizonAfterDays: math.NaN()}
+	var firstErr error
+	firstErrParams := math.MaxInt
+	for _, m := range models {
+		row := ModelRow{
+			Model: m.Name(), Spec: m, NumParams: m.NumMotionParams(),
+			RMSArcsec: math.NaN(), Chi2DoF: math.NaN(), BIC: math.NaN(),
+			CVErrorArcsec: math.NaN(), CVSEArcsec: math.NaN(), CVNormRMS: math.NaN(),
+		}
+		if s.Parallax == ParallaxFit {
+			row.NumParams++
+		}
+		sol, err := Fit(tr, m, s)
+		if err != nil {
+			row.Err = err.Error()
+			if row.NumParams < firstErrParams {
+				firstErr, firstErrParams = err, row.NumParams
+			}
+			c.Rows = append(c.Rows, row)
+			continue
+		}
+		row.Solution = sol
+		row.NumParams = len(sol.Params)
+		row.RMSArcsec = sol.RMSArcsec
+		row.Chi2DoF = sol.Chi2DoF
+		row.BIC = BIC(sol)
+		row.CV = CrossValidate(sol)
+		row.CVErrorArcsec = row.CV.RMSArcsec
+		row.CVSEArcsec = row.CV.SEArcsec
+		row.CVNormRMS = row.CV.NormRMS
+		c.Rows = append(c.Rows, row)
+	}
+	best := chooseRow(c)
+	if best < 0 {
+		if firstErr == nil {
+			firstErr = ErrNoModel
+		}
+		return nil, firstErr
+	}
+	c.Rows[best].Chosen = true
+	c.Chosen = c.Rows[best].Model
+	c.Solution = c.Rows[best].Solution
+
+	h := horizon(c)
+	c.HorizonDays, c.HorizonBeforeDays, c.HorizonAfterDays, c.HorizonRule = h.days, h.before, h.after, h.rule
+
+	first, last := tr.ArcTT()
+	for i := range c.Rows {
+		row := &c.Rows[i]
+		if row.Solution == nil || len(at) == 0 {
+			continue
+		}
+		row.Preds = make([]Prediction, 0, len(at))
+		for _, t := range at {
+			p, err := row.Solution.Predict(t, site)
+			if err != nil {
+				row.Err = err.Error()
+				row.Preds = nil
+				break
+			}
+			markHorizon(&p, tr, first, last, h)
+			row.Preds = append(row.Preds, p)
+		}
+		if len(row.Preds) > 0 {
+			row.Pred = &row.Preds[0]
+		}
+	}
+	for _, row := range c.Rows {
+		for _, n := range row.CV.Notes {
+			c.Notes = append(c.Notes, row.Model+": "+n)
+		}
+	}
+	return c, nil
+}
+
+// markHorizon sets a prediction's HorizonDays (the horizon on the side of the
+// arc its time lies, the smaller one inside the arc) and BeyondHorizon
+// (its time lies farther than that beyond the arc's nearer end).
+func markHorizon(p *Prediction, tr *Track, first, last float64, h horizonResult) {
+	tt, err := astro.UTCToTT(p.UTC)
+	if err != nil && tt == (astro.JD{}) {
+		p.HorizonDays = h.days
+		return
+	}
+	t := tt.Sub(tr.EpochTT)
+	switch {
+	case t > last:
+		p.HorizonDays = h.after
+		p.BeyondHorizon = t-last > h.after
+	case t < first:
+		p.HorizonDays = h.before
+		p.BeyondHorizon = first-t > h.before
+	default:
+		p.HorizonDays = h.days
+		p.BeyondHorizon = false
+	}
+}
+
+// chooseRow applies the auto rule of [Compare] and writes the reason; it
+// returns the chosen row's index, −1 when no row was fitted.
+func chooseRow(c *Comparison) int {
+	var fitted []int
+	for i, r := range c.Rows {
+		if r.Solution != nil {
+			fitted = append(fitted, i)
+		}
+	}
+	if len(fitted) == 0 {
+		return -1
+	}
+	// Simpler first: fewer parameters, then the order given.
+	sort.SliceStable(fitted, func(a, b int) bool {
+		return c.Rows[fitted[a]].NumParams < c.Rows[fitted[b]].NumParams
+	})
+	bicBest := fitted[0]
+	for _, i := range fitted[1:] {
+		if lowerBeyondTie(c.Rows[i].BIC, c.Rows[bicBest].BIC) {
+			bicBest = i
+		}
+	}
+	var withCV []int
+	for _, i := range fitted {
+		if !math.IsNaN(c.Rows[i].CVErrorArcsec) {
+			withCV = append(withCV, i)
+		}
+	}
+	if len(withCV) >= 2 {
+		low := withCV[0]
+		for _, i := range withCV[1:] {
+			if c.Rows[i].CVErrorArcsec < c.Rows[low].CVErrorArcsec {
+				low = i
+			}
+		}
+		se := c.Rows[low].CVSEArcsec
+		if math.IsNaN(se) {
+			se = 0
+		}
+		limit := c.Rows[low].CVErrorArcsec + se
+		pick := low
+		for _, i := range withCV { // simplest first
+			if c.Rows[i].CVErrorArcsec <= limit {
+				if c.Rows[i].NumParams < c.Rows[pick].NumParams ||
+					(c.Rows[i].NumParams == c.Rows[pick].NumParams && c.Rows[i].CVErrorArcsec < c.Rows[pick].CVErrorArcsec) {
+					pick = i
+				}
+			}
+		}
+		r := c.Rows[pick]
+		var b strings.Builder
+		if pick == low {
+			fmt.Fprintf(&b, "%s: lowest cross-validated error (%.3g″) of %d models", r.Model, r.CVErrorArcsec, len(withCV))
+		} else {
+			fmt.Fprintf(&b, "%s: the simplest model within one standard error (%.2g″) of the lowest cross-validated error (%s, %.3g″); its own is %.3g″",
+				r.Model, se, c.Rows[low].Model, c.Rows[low].CVErrorArcsec, r.CVErrorArcsec)
+		}
+		if bicBest == pick {
+			b.WriteString("; BIC agrees")
+		} else {
+			fmt.Fprintf(&b, "; BIC prefers %s (ΔBIC %.1f)", c.Rows[bicBest].Model, r.BIC-c.Rows[bicBest].BIC)
+		}
+		c.Reason = b.String()
+		return pick
+	}
+	r := c.Rows[bicBest]
+	why := "cross-validation is not available"
+	nights := usedNightSpans(r.Solution.Track)
+	if len(nights) < MinCVNights {
+		why = fmt.Sprintf("cross-validation needs at least %d nights (%d observed)", MinCVNights, len(nights))
+	} else if len(withCV) == 1 {
+		why = "cross-validation was possible for one model only"
+	}
+	c.Reason = fmt.Sprintf("%s: lowest BIC (%.1f) of %d models; %s", r.Model, r.BIC, len(fitted), why)
+	return bicBest
+}
+
+// lowerBeyondTie reports whether a is lower than b by more than the tie
+// tolerance of 1e-9 (relative).
+func lowerBeyondTie(a, b float64) bool {
+	if math.IsNaN(a) {
+		return false
+	}
+	if math.IsNaN(b) {
+		return true
+	}
+	return a < b-1e-9*math.Max(math.Abs(b), 1)
+}
