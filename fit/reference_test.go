@@ -166,8 +166,8 @@ var (
 	refPlane   = astro.TangentPlane{RA0: 3.0, Dec0: 0.4}
 )
 
-// utcAtT returns the UTC instant T TT days from the epoch.
-func utcAtT(t *testing.T, epochTT astro.JD, days float64) astro.JD {
+// calibUTCAtT returns the UTC instant T TT days from the epoch.
+func calibUTCAtT(t *testing.T, epochTT astro.JD, days float64) astro.JD {
 	t.Helper()
 	utc, err := astro.TTToUTC(epochTT.AddDays(days))
 	if err != nil {
@@ -181,7 +181,7 @@ func (p *refProblem) track(t *testing.T) *Track {
 	pts := append([]Point(nil), p.points...)
 	nights := 0
 	for i := range pts {
-		pts[i].UTC = utcAtT(t, refEpochTT, pts[i].T)
+		pts[i].UTC = calibUTCAtT(t, refEpochTT, pts[i].T)
 		nights = max(nights, pts[i].Night+1)
 	}
 	return &Track{
@@ -308,7 +308,7 @@ func TestFitAgainstNumpy(t *testing.T) {
 				}
 			}
 			for _, rp := range p.preds {
-				utc := utcAtT(t, refEpochTT, rp.t)
+				utc := calibUTCAtT(t, refEpochTT, rp.t)
 				pr, err := sol.Predict(utc, nil)
 				if err != nil {
 					t.Fatalf("Predict(T = %+g d): %v", rp.t, err)
@@ -332,7 +332,7 @@ func TestFitAgainstNumpy(t *testing.T) {
 						c[a][b] = pr.CovArcsec2[a][b] * astro.Arcsecond.Radians() * astro.Arcsecond.Radians()
 					}
 				}
-				pc := mul2(mul2(j, c), transpose2(j))
+				pc := calibMul2(calibMul2(j, c), calibTranspose2(j))
 				want := [2][2]float64{{rp.cxx, rp.cxy}, {rp.cxy, rp.cyy}}
 				for a := 0; a < 2; a++ {
 					for b := a; b < 2; b++ {
@@ -351,7 +351,7 @@ func TestFitAgainstNumpy(t *testing.T) {
 	}
 }
 
-func mul2(a, b [2][2]float64) [2][2]float64 {
+func calibMul2(a, b [2][2]float64) [2][2]float64 {
 	var r [2][2]float64
 	for i := 0; i < 2; i++ {
 		for j := 0; j < 2; j++ {
@@ -361,6 +361,6 @@ func mul2(a, b [2][2]float64) [2][2]float64 {
 	return r
 }
 
-func transpose2(a [2][2]float64) [2][2]float64 {
+func calibTranspose2(a [2][2]float64) [2][2]float64 {
 	return [2][2]float64{{a[0][0], a[1][0]}, {a[0][1], a[1][1]}}
 }

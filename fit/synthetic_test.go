@@ -16,11 +16,11 @@ import (
 // an invented main-belt asteroid seen from two invented sites (places from
 // ephem.PlaceOfElements). All objects, element sets and sites are invented.
 
-// planeMotion is a noise-free geocentric motion on the tangent plane,
+// calibPlaneMotion is a noise-free geocentric motion on the tangent plane,
 // ξ(T) = Σ_k Xi[k] T^k + Σ_j HingeXi[j] max(0, T − Knots[j]) (T in days, the
 // coefficients in radians per day^k), likewise η, and the inverse distance U
 // (au⁻¹) of the parallax term ξ_obs = ξ − U·SiteXi.
-type planeMotion struct {
+type calibPlaneMotion struct {
 	Xi, Eta           []float64
 	Knots             []float64
 	HingeXi, HingeEta []float64
@@ -28,7 +28,7 @@ type planeMotion struct {
 }
 
 // at returns the geocentric ξ, η at T days.
-func (m planeMotion) at(tDays float64) (xi, eta float64) {
+func (m calibPlaneMotion) at(tDays float64) (xi, eta float64) {
 	p := 1.0
 	for k := range m.Xi {
 		xi += m.Xi[k] * p
@@ -44,18 +44,18 @@ func (m planeMotion) at(tDays float64) (xi, eta float64) {
 	return xi, eta
 }
 
-// inventedSite is an invented observing site for plane-level tracks: east
+// calibPlaneSite is an invented observing site for plane-level tracks: east
 // longitude and geocentric latitude (radians), at the Earth's equatorial
 // radius. Its vectors are not those of astro.SitePositionGCRS; plane-level
 // tracks are predicted for the geocentre only.
-type inventedSite struct {
+type calibPlaneSite struct {
 	name     string
 	lon, lat float64
 }
 
-// earthRadiusAU is the WGS84 equatorial radius in au (6378.137 km, IAU 2012 au
+// calibEarthRadiusAU is the WGS84 equatorial radius in au (6378.137 km, IAU 2012 au
 // of 149 597 870.7 km; constants of astro).
-var earthRadiusAU = astro.WGS84EquatorialRadiusKm / astro.AUKm
+var calibEarthRadiusAU = astro.WGS84EquatorialRadiusKm / astro.AUKm
 
 // siteVector returns the invented site's geocentric position (au) projected
 // on the plane's east (ξ) and north (η) axes at T days, for a tangent point
@@ -67,30 +67,30 @@ var earthRadiusAU = astro.WGS84EquatorialRadiusKm / astro.AUKm
 //
 // (the topocentric correction's geometry, Meeus, Astronomical Algorithms,
 // 2nd ed., ch. 40, in plane components).
-func (s inventedSite) siteVector(tDays, dec0 float64) (sxi, seta float64) {
+func (s calibPlaneSite) siteVector(tDays, dec0 float64) (sxi, seta float64) {
 	h := 2*math.Pi*1.00273781*tDays + s.lon - 0.3
-	r := earthRadiusAU
+	r := calibEarthRadiusAU
 	sxi = -r * math.Cos(s.lat) * math.Sin(h)
 	seta = r * (math.Sin(s.lat)*math.Cos(dec0) - math.Cos(s.lat)*math.Sin(dec0)*math.Cos(h))
 	return sxi, seta
 }
 
-// planeTrackSpec describes a plane-level synthetic track.
-type planeTrackSpec struct {
-	motion      planeMotion
+// calibTrackSpec describes a plane-level synthetic track.
+type calibTrackSpec struct {
+	motion      calibPlaneMotion
 	plane       astro.TangentPlane
 	epochTT     astro.JD
 	nights      []float64 // T of each night's first observation, days
 	perNight    int       // observations per night, spread over spanDays
 	spanDays    float64
-	sites       []inventedSite // taken in turn; nil or empty for the geocentre
-	sigmaArcsec float64        // σ of ξ and η
-	corr        float64        // correlation of every other point's errors (the rest 0)
+	sites       []calibPlaneSite // taken in turn; nil or empty for the geocentre
+	sigmaArcsec float64          // σ of ξ and η
+	corr        float64          // correlation of every other point's errors (the rest 0)
 }
 
 // track returns the noise-free track: ObsIndex, Line, UTC, T, Xi, Eta (the
 // observed, topocentric standard coordinates), σ, Corr, site vectors, Night.
-func (sp planeTrackSpec) track(t *testing.T) *Track {
+func (sp calibTrackSpec) track(t *testing.T) *Track {
 	t.Helper()
 	var pts []Point
 	first, last := math.Inf(1), math.Inf(-1)
@@ -103,7 +103,7 @@ func (sp planeTrackSpec) track(t *testing.T) *Track {
 			xi, eta := sp.motion.at(tt)
 			p := Point{
 				ObsIndex: len(pts), Line: len(pts) + 1,
-				UTC: utcAtT(t, sp.epochTT, tt), T: tt,
+				UTC: calibUTCAtT(t, sp.epochTT, tt), T: tt,
 				SigmaXi:  sp.sigmaArcsec * astro.Arcsecond.Radians(),
 				SigmaEta: sp.sigmaArcsec * astro.Arcsecond.Radians(),
 				Night:    n, Used: true,
@@ -131,10 +131,10 @@ func (sp planeTrackSpec) track(t *testing.T) *Track {
 	}
 }
 
-// noisyCopy returns a copy of tr whose Xi, Eta carry Gaussian errors drawn
+// calibNoisyCopy returns a copy of tr whose Xi, Eta carry Gaussian errors drawn
 // with each point's σ and correlation (e = L z, L the Cholesky factor of the
 // 2×2 covariance, z standard normal).
-func noisyCopy(tr *Track, rng *rand.Rand) *Track {
+func calibNoisyCopy(tr *Track, rng *rand.Rand) *Track {
 	out := *tr
 	out.Points = append([]Point(nil), tr.Points...)
 	for i := range out.Points {
@@ -146,23 +146,23 @@ func noisyCopy(tr *Track, rng *rand.Rand) *Track {
 	return &out
 }
 
-// skyOffsetArcsec returns the offset of (ra, dec) from the reference (ra0,
+// calibSkyOffsetArcsec returns the offset of (ra, dec) from the reference (ra0,
 // dec0) as the standard coordinates of the former about the latter, in arcsec:
 // east (RA·cos δ) and north (Dec), exact to second order in the offset.
-func skyOffsetArcsec(t *testing.T, ra, dec, ra0, dec0 astro.Angle) (east, north float64) {
+func calibSkyOffsetArcsec(t *testing.T, ra, dec, ra0, dec0 astro.Angle) (east, north float64) {
 	t.Helper()
 	xi, eta, err := astro.TangentPlane{RA0: ra0, Dec0: dec0}.Project(ra, dec)
 	if err != nil {
-		t.Fatalf("skyOffsetArcsec: %v", err)
+		t.Fatalf("calibSkyOffsetArcsec: %v", err)
 	}
 	return astro.Angle(xi).Arcseconds(), astro.Angle(eta).Arcseconds()
 }
 
-// insideEllipse reports whether the sky offset (east, north) in arcsec lies
+// calibInsideEllipse reports whether the sky offset (east, north) in arcsec lies
 // inside the ellipse: along the major axis (position angle PA, north through
 // east) the offset is east·sin PA + north·cos PA, along the minor axis
 // east·cos PA − north·sin PA.
-func insideEllipse(el Ellipse, east, north float64) bool {
+func calibInsideEllipse(el Ellipse, east, north float64) bool {
 	s, c := math.Sincos(float64(el.PA))
 	a := east*s + north*c
 	b := east*c - north*s
