@@ -307,6 +307,9 @@ func TestFitAgainstNumpy(t *testing.T) {
 					t.Errorf("Fit(%s): u = %.15g ± %.15g au⁻¹, want %.15g ± %.15g (%s)", p.model, sol.InvDistance, sol.InvDistanceSigma, u, su, src)
 				}
 			}
+			if p.parallax == "fixed" && sol.InvDistance != p.uFixed {
+				t.Errorf("Fit(%s, parallax fixed): u = %.15g au⁻¹, want the given %.15g (%s)", p.model, sol.InvDistance, p.uFixed, src)
+			}
 			for _, rp := range p.preds {
 				utc := calibUTCAtT(t, refEpochTT, rp.t)
 				pr, err := sol.Predict(utc, nil)
