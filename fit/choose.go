@@ -88,7 +88,7 @@ func CandidateModelsWith(tr *Track, s Settings) []Model {
 	if len(knots) == 0 {
 		return out
 	}
-	m, _, err := SelectKnots(tr, s)
+	m, err := selectKnotsModel(tr, knots, s)
 	if err != nil {
 		m = Piecewise(knots)
 	}

@@ -98,12 +98,18 @@ func CrossValidate(full *Solution) CrossValidation {
 			flagged[i] = r.Flagged
 		}
 	}
+	flaggedObs := map[int]bool{}
+	for i, f := range flagged {
+		if f {
+			flaggedObs[tr.Points[i].ObsIndex] = true
+		}
+	}
 	frame := newPlaneFrame(tr.Plane)
 	var sumSq, sumChi2 float64
 	var foldMS []float64
 	for _, sp := range spans {
 		k := sp.night
-		sub := tr.Subset(func(p Point) bool { return p.Night != k })
+		sub := tr.Subset(func(p Point) bool { return p.Night != k && !flaggedObs[p.ObsIndex] })
 		sol, err := fitFold(sub, full.Model, full.Settings)
 		if err != nil {
 			cv.Failed = append(cv.Failed, k)
@@ -154,18 +160,34 @@ func CrossValidate(full *Solution) CrossValidation {
 	return cv
 }
 
-// fitFold fits the model to a fold's track; a piecewise model re-chooses its
-// knots from the fold's own gaps (a straight line when one night is left).
+// fitFold fits the model to a fold's track with no further outlier
+// rejection (the full fit's flagged points are already left out). A piecewise
+// model keeps the full track's knots that have fold data on both sides, one
+// per gap of the fold (several knots in one gap become that gap's mid-point);
+// a fold left with one night fits a straight line.
 func fitFold(sub *Track, m Model, s Settings) (*Solution, error) {
+	s.KeepAll = true
 	if m.Kind != KindPiecewise {
 		return Fit(sub, m, s)
 	}
-	knots := GapKnots(sub)
-	if len(knots) == 0 {
-		return Fit(sub, Piecewise(nil), s)
+	spans := usedNightSpans(sub)
+	var knots []float64
+	for i := 1; i < len(spans); i++ {
+		a, b := spans[i-1], spans[i]
+		n, last := 0, 0.0
+		for _, k := range m.Knots {
+			if k > a.end && k < b.first {
+				n, last = n+1, k
+			}
+		}
+		switch {
+		case n == 1:
+			knots = append(knots, last)
+		case n > 1:
+			knots = append(knots, 0.5*(a.end+b.first))
+		}
 	}
-	_, sol, err := selectKnotsFrom(sub, knots, s)
-	return sol, err
+	return Fit(sub, Piecewise(knots), s)
 }
 
 // missAt returns the miss of point p under the solution: the observed minus

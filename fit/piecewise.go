@@ -96,46 +96,60 @@ var ErrNoGap = errors.New("fit: piecewise: no gap between nights to place a knot
 // without each remaining knot in turn and drops the knot whose removal lowers
 // BIC the most; it stops when no removal lowers BIC or when one knot is
 // left. The piecewise model keeps at least one knot, since without knots it
-// is the straight line poly1, which the comparison holds anyway. A knot whose
-// fit fails (a singular design) is dropped first.
+// is the straight line poly1, which the comparison holds anyway. A model
+// that cannot be fitted (a segment without the data to fix its slope) loses
+// first the knot whose removal repairs it best.
 //
-// It returns the chosen model and its fit. The error is ErrNoGap when the
-// track has no gap between nights, or the fit's error when even the model
-// with all knots cannot be fitted and no knot can be removed to repair it.
+// Outliers: the model with all knots is fitted with the settings s (outlier
+// rejection included); the elimination then fits the same points without the
+// ones that fit flagged, with no further rejection, so that every BIC
+// compared is over the same data. The returned solution is the chosen model
+// fitted to the whole track with s.
+//
+// The error is ErrNoGap when the track has no gap between nights, or the
+// fit's error when no model with a knot can be fitted.
 //
 // Reference: backward elimination, Miller, A., Subset Selection in
 // Regression, 2nd ed., Chapman & Hall (2002), §3.3; the criterion, Schwarz
 // (1978) (see [BIC]).
 func SelectKnots(tr *Track, s Settings) (Model, *Solution, error) {
-	return selectKnotsFrom(tr, GapKnots(tr), s)
+	m, err := selectKnotsModel(tr, GapKnots(tr), s)
+	if err != nil {
+		return m, nil, err
+	}
+	sol, err := Fit(tr, m, s)
+	return m, sol, err
 }
 
-// selectKnotsFrom is SelectKnots from the given starting knots.
-func selectKnotsFrom(tr *Track, knots []float64, s Settings) (Model, *Solution, error) {
+// selectKnotsModel is the elimination of SelectKnots from the given knots.
+func selectKnotsModel(tr *Track, knots []float64, s Settings) (Model, error) {
 	if len(knots) == 0 {
-		return Piecewise(nil), nil, ErrNoGap
+		return Piecewise(nil), ErrNoGap
 	}
 	cur := Piecewise(knots)
 	sol, err := Fit(tr, cur, s)
-	// Repair a model that cannot be fitted (a segment without the data to
-	// fix its slope): drop, one at a time, the knot whose removal gives the
-	// lowest BIC among the fits that succeed.
+	work, ws := tr, s
+	if err == nil && !s.KeepAll {
+		work, ws = withoutFlagged(tr, sol), s
+		ws.KeepAll = true
+	}
+	// Repair a model that cannot be fitted: drop, one at a time, the knot
+	// whose removal gives the lowest BIC among the fits that succeed.
 	for err != nil {
 		if len(cur.Knots) <= 1 {
-			return cur, nil, err
+			return cur, err
 		}
 		var bestSol *Solution
 		bestI := -1
 		for i := range cur.Knots {
-			s2, e2 := Fit(tr, Piecewise(without(cur.Knots, i)), s)
+			s2, e2 := Fit(work, Piecewise(without(cur.Knots, i)), ws)
 			if e2 == nil && (bestSol == nil || BIC(s2) < BIC(bestSol)) {
 				bestI, bestSol = i, s2
 			}
 		}
 		if bestSol == nil {
-			// No single removal helps: go on removing the last knot.
 			cur = Piecewise(cur.Knots[:len(cur.Knots)-1])
-			sol, err = Fit(tr, cur, s)
+			sol, err = Fit(work, cur, ws)
 			continue
 		}
 		cur, sol, err = Piecewise(without(cur.Knots, bestI)), bestSol, nil
@@ -143,24 +157,37 @@ func selectKnotsFrom(tr *Track, knots []float64, s Settings) (Model, *Solution, 
 	bic := BIC(sol)
 	for len(cur.Knots) > 1 {
 		bestI, bestBIC := -1, bic
-		var bestSol *Solution
 		for i := range cur.Knots {
-			m := Piecewise(without(cur.Knots, i))
-			s2, e2 := Fit(tr, m, s)
+			s2, e2 := Fit(work, Piecewise(without(cur.Knots, i)), ws)
 			if e2 != nil {
 				continue
 			}
 			if b := BIC(s2); b < bestBIC {
-				bestI, bestBIC, bestSol = i, b, s2
+				bestI, bestBIC = i, b
 			}
 		}
 		if bestI < 0 {
 			break
 		}
 		cur = Piecewise(without(cur.Knots, bestI))
-		sol, bic = bestSol, bestBIC
+		bic = bestBIC
 	}
-	return cur, sol, nil
+	return cur, nil
+}
+
+// withoutFlagged returns the track without the points sol flagged as
+// outliers.
+func withoutFlagged(tr *Track, sol *Solution) *Track {
+	flagged := map[int]bool{}
+	for _, r := range sol.Residuals {
+		if r.Flagged {
+			flagged[r.ObsIndex] = true
+		}
+	}
+	if len(flagged) == 0 {
+		return tr
+	}
+	return tr.Subset(func(p Point) bool { return !flagged[p.ObsIndex] })
 }
 
 // without returns a copy of x without element i.

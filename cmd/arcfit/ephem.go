@@ -280,6 +280,9 @@ func siteFromFlags(site, sitesFile string) (*astro.Site, error) {
 
 // readSites reads a --sites file; its errors are input errors.
 func readSites(path string) (map[string]astro.Site, error) {
+	if path == "" {
+		return nil, nil
+	}
 	s, err := obs.ReadSitesFile(path)
 	if err != nil {
 		return nil, inputError(err)

@@ -149,18 +149,6 @@ func checkSigma(v float64) error {
 	return nil
 }
 
-// readSites reads --sites (nil when not given).
-func readSites(path string) (map[string]astro.Site, error) {
-	if path == "" {
-		return nil, nil
-	}
-	s, err := obs.ReadSitesFile(path)
-	if err != nil {
-		return nil, inputError(err)
-	}
-	return s, nil
-}
-
 // analysis is what fit and predict work out from an observation file.
 type analysis struct {
 	data     []byte

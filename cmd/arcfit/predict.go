@@ -13,7 +13,6 @@ import (
 	"strconv"
 	"strings"
 	"text/tabwriter"
-	"time"
 
 	"github.com/spf13/pflag"
 
@@ -129,38 +128,6 @@ func parseInstant(flag, s string) (astro.JD, error) {
 	return j, nil
 }
 
-// parseStep reads a time step: a number with d, h, min, m or s, or a
-// duration as 1h30m; it returns days.
-func parseStep(s string) (float64, error) {
-	t := strings.TrimSpace(s)
-	bad := usagef("--step %q: want a positive step such as 1d, 2h, 30m, 10min or 90s", s)
-	var days float64
-	switch {
-	case strings.HasSuffix(t, "min"):
-		v, err := strconv.ParseFloat(strings.TrimSuffix(t, "min"), 64)
-		if err != nil {
-			return 0, bad
-		}
-		days = v / 1440
-	case strings.HasSuffix(t, "d"):
-		v, err := strconv.ParseFloat(strings.TrimSuffix(t, "d"), 64)
-		if err != nil {
-			return 0, bad
-		}
-		days = v
-	default:
-		d, err := time.ParseDuration(t)
-		if err != nil {
-			return 0, bad
-		}
-		days = d.Hours() / 24
-	}
-	if !(days > 0) || math.IsInf(days, 0) {
-		return 0, bad
-	}
-	return days, nil
-}
-
 // predictTimes returns the instants the options ask for.
 func predictTimes(o predictOptions) ([]astro.JD, error) {
 	if strings.TrimSpace(o.at) == "" {
@@ -181,7 +148,8 @@ func predictTimes(o predictOptions) ([]astro.JD, error) {
 		if err != nil {
 			return nil, err
 		}
-		step, err := parseStep(o.step)
+		stepDur, err := parseStep(o.step)
+		step := stepDur.Hours() / 24
 		if err != nil {
 			return nil, err
 		}
