@@ -19,7 +19,7 @@ import (
 // Reference: Press et al., Numerical Recipes, 3rd ed. (2007), §15.6 (the
 // χ²(2) level 11.8 for 99.73 %); §15.7 on the fragility of least squares to
 // outliers.
-func rejectOutliers(tr *Track, m Model, s Settings, fitU bool, active []bool, sol *Solution) (*Solution, error) {
+func rejectOutliers(tr *Track, m Model, s Settings, fitU bool, active []bool, sol *Solution, jinv [][2][2]float64) (*Solution, error) {
 	thr := s.RejectChi2
 	if thr == 0 {
 		thr = DefaultRejectChi2
@@ -51,11 +51,14 @@ func rejectOutliers(tr *Track, m Model, s Settings, fitU bool, active []bool, so
 			break
 		}
 		active[worst] = false
-		if distinctTimes(tr, active) < need+1 || checkKnots(tr, m, active) != nil {
+		// Counting distinct times costs a sort; a point count well above the
+		// need settles it.
+		if (nUsed-flagged-1 < 4*(need+1) && distinctTimes(tr, active) < need+1) ||
+			(len(m.Knots) > 0 && checkKnots(tr, m, active) != nil) {
 			active[worst] = true
 			break
 		}
-		next, err := solve(tr, m, s, fitU, active)
+		next, err := solve(tr, m, s, fitU, active, jinv)
 		if err != nil {
 			// Removing the point made the design singular: keep it.
 			active[worst] = true
@@ -65,10 +68,9 @@ func rejectOutliers(tr *Track, m Model, s Settings, fitU bool, active []bool, so
 		flagged++
 	}
 	if flagged > 0 {
-		thrNote := fmt.Sprintf("%.2f", thr)
 		sol.Notes = append(sol.Notes, fmt.Sprintf(
-			"%d observation(s) flagged as outliers (normalised χ² above %s, the 3-σ equivalent for 2 dof when %.2f) and left out of the fit",
-			flagged, thrNote, DefaultRejectChi2))
+			"%d observation(s) flagged as outliers (normalised χ² above %.2f) and left out of the fit; see the residuals",
+			flagged, thr))
 	}
 	return sol, nil
 }

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 
 	"arcfit/astro"
 
@@ -201,12 +202,13 @@ func Fit(tr *Track, m Model, s Settings) (*Solution, error) {
 	if err := checkKnots(tr, m, active); err != nil {
 		return nil, err
 	}
-	sol, err := solve(tr, m, s, fitU, active)
+	jinv := planeJacobians(tr)
+	sol, err := solve(tr, m, s, fitU, active, jinv)
 	if err != nil {
 		return nil, err
 	}
 	if !s.KeepAll {
-		sol, err = rejectOutliers(tr, m, s, fitU, active, sol)
+		sol, err = rejectOutliers(tr, m, s, fitU, active, sol, jinv)
 		if err != nil {
 			return nil, err
 		}
@@ -236,13 +238,20 @@ func needFor(m Model, fitU bool) int {
 
 // distinctTimes counts the active points at distinct times.
 func distinctTimes(tr *Track, active []bool) int {
-	seen := map[float64]bool{}
+	ts := make([]float64, 0, len(tr.Points))
 	for i, p := range tr.Points {
 		if active[i] {
-			seen[p.T] = true
+			ts = append(ts, p.T)
 		}
 	}
-	return len(seen)
+	slices.Sort(ts)
+	n := 0
+	for i, t := range ts {
+		if i == 0 || t != ts[i-1] {
+			n++
+		}
+	}
+	return n
 }
 
 func checkCount(tr *Track, m Model, fitU bool, active []bool) error {
@@ -283,7 +292,7 @@ func checkKnots(tr *Track, m Model, active []bool) error {
 }
 
 // solve performs one weighted least-squares fit of the active points.
-func solve(tr *Track, m Model, s Settings, fitU bool, active []bool) (*Solution, error) {
+func solve(tr *Track, m Model, s Settings, fitU bool, active []bool, jinv [][2][2]float64) (*Solution, error) {
 	q := m.NumPerCoord()
 	np := 2 * q
 	if fitU {
@@ -377,7 +386,7 @@ func solve(tr *Track, m Model, s Settings, fitU bool, active []bool) (*Solution,
 			// Is the parallax column to blame?
 			s2 := s
 			s2.Parallax = ParallaxOff
-			if _, err := solve(tr, m, s2, false, active); err == nil {
+			if _, err := solve(tr, m, s2, false, active, jinv); err == nil {
 				return nil, fmt.Errorf("%w (the parallax cannot be told from the %s motion terms; give a distance or turn the parallax term off)",
 					ErrParallaxNotEstimable, m.Name())
 			}
@@ -431,7 +440,7 @@ func solve(tr *Track, m Model, s Settings, fitU bool, active []bool) (*Solution,
 	case s.Parallax == ParallaxFixed:
 		sol.InvDistance, sol.InvDistanceSigma = s.InvDistance, 0
 	}
-	sol.fillResiduals(active)
+	sol.fillResiduals(active, jinv)
 	if sol.DoF > 0 {
 		sol.Chi2DoF = sol.Chi2 / float64(sol.DoF)
 	} else {
@@ -499,13 +508,27 @@ func (s *Solution) geocentric(tDays float64) (xi, eta float64) {
 // cross-validation), with its normalised χ²; Flagged and Used are false. It
 // uses the point's own site vector, so it needs no ephemeris work.
 func (s *Solution) PointResidual(p Point) Residual {
+	frame := newPlaneFrame(s.Track.Plane)
+	return s.pointResidual(p, inv2(frame.skyToPlane(p.Xi, p.Eta)))
+}
+
+// planeJacobians returns, for every point of tr, the inverse of the
+// projection's Jacobian at the point (plane offsets → east, north).
+func planeJacobians(tr *Track) [][2][2]float64 {
+	frame := newPlaneFrame(tr.Plane)
+	out := make([][2][2]float64, len(tr.Points))
+	for i, p := range tr.Points {
+		out[i] = inv2(frame.skyToPlane(p.Xi, p.Eta))
+	}
+	return out
+}
+
+func (s *Solution) pointResidual(p Point, jinv [2][2]float64) Residual {
 	cx, ce := s.computed(p)
 	dx, de := p.Xi-cx, p.Eta-ce
 	l11, l21, l22 := cholesky2(p)
 	z1 := dx / l11
 	z2 := (de - l21*z1) / l22
-	frame := newPlaneFrame(s.Track.Plane)
-	jinv := inv2(frame.skyToPlane(p.Xi, p.Eta))
 	dE := jinv[0][0]*dx + jinv[0][1]*de
 	dN := jinv[1][0]*dx + jinv[1][1]*de
 	return Residual{
@@ -520,13 +543,13 @@ func (s *Solution) PointResidual(p Point) Residual {
 
 // fillResiduals computes the residuals of every point, χ² and the RMS of the
 // active points.
-func (s *Solution) fillResiduals(active []bool) {
+func (s *Solution) fillResiduals(active []bool, jinv [][2][2]float64) {
 	s.Residuals = make([]Residual, len(s.Track.Points))
 	s.Chi2 = 0
 	var ss float64
 	n := 0
 	for i, p := range s.Track.Points {
-		r := s.PointResidual(p)
+		r := s.pointResidual(p, jinv[i])
 		r.Used = active[i]
 		r.Flagged = p.Used && !active[i]
 		if active[i] {

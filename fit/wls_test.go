@@ -449,3 +449,21 @@ func TestFitCorrelationWhitening(t *testing.T) {
 		t.Errorf("correlated fit: χ² = %.12g, want %.12g (decorrelated refit)", sol.Chi2, sr.Chi2)
 	}
 }
+
+// TestModelNames: the agreed names (fit API, issue item 10).
+func TestModelNames(t *testing.T) {
+	for in, want := range map[string]string{" Poly2 ": "poly2", "AUTO": "auto", "piecewise": "piecewise", "poly1": "poly1", "poly3": "poly3"} {
+		if got, err := ParseModelName(in); err != nil || got != want {
+			t.Errorf("ParseModelName(%q) = %q, %v; want %q", in, got, err, want)
+		}
+	}
+	for _, bad := range []string{"poly4", "", "spline"} {
+		if _, err := ParseModelName(bad); err == nil {
+			t.Errorf("ParseModelName(%q): no error", bad)
+		}
+	}
+	if Poly(3).Name() != "poly3" || Piecewise([]float64{1, -1}).Name() != "piecewise" || Piecewise([]float64{1, -1}).Knots[0] != -1 ||
+		Poly(2).NumMotionParams() != 6 || Piecewise([]float64{0.5}).NumMotionParams() != 6 {
+		t.Error("model names, knot order or parameter counts wrong (poly d: 2(d+1); piecewise k: 2(k+2))")
+	}
+}
