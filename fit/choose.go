@@ -179,6 +179,17 @@ func Compare(tr *Track, models []Model, s Settings, at []astro.JD, site *astro.S
 	h := horizon(c)
 	c.HorizonDays, c.HorizonBeforeDays, c.HorizonAfterDays, c.HorizonRule = h.days, h.before, h.after, h.rule
 
+	// The horizon compares the models' formal covariances; the predictions
+	// below carry each model's widening for its cross-validated misses.
+	for i := range c.Rows {
+		row := &c.Rows[i]
+		if k := row.CVNormRMS; row.Solution != nil && k > 1 && !math.IsInf(k, 0) {
+			row.Solution.PredictionScale = k * k
+			row.Solution.Notes = append(row.Solution.Notes, fmt.Sprintf(
+				"the nights left out were missed by %.2f times what the covariance allowed: the search region is widened by that factor", k))
+		}
+	}
+
 	first, last := tr.ArcTT()
 	for i := range c.Rows {
 		row := &c.Rows[i]

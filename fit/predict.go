@@ -122,6 +122,13 @@ func (s *Solution) Predict(utc astro.JD, site *astro.Site) (Prediction, error) {
 	}
 	pr.CovArcsec2[0][1] = 0.5 * (pr.CovArcsec2[0][1] + pr.CovArcsec2[1][0])
 	pr.CovArcsec2[1][0] = pr.CovArcsec2[0][1]
+	if k := s.PredictionScale; k > 1 && !math.IsInf(k, 0) {
+		for a := 0; a < 2; a++ {
+			for b := 0; b < 2; b++ {
+				pr.CovArcsec2[a][b] *= k
+			}
+		}
+	}
 	pr.RA, pr.Dec = s.Track.Plane.Deproject(xi, eta)
 
 	// Rate: central difference of the topocentric prediction.

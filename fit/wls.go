@@ -111,6 +111,13 @@ type Solution struct {
 	// Notes are plain-words remarks: scaled covariance, a parallax left out,
 	// a poorly determined distance, outliers flagged.
 	Notes []string
+	// PredictionScale multiplies the covariance of every prediction; 0 or 1
+	// means none. [Compare] sets it to the square of the model's
+	// cross-validated normalised miss when that exceeds 1: the model then
+	// missed the nights left out by more than its own covariance allowed
+	// (a bias between nights that the formal covariance cannot show), and its
+	// search region is widened by that factor so that it stays honest.
+	PredictionScale float64
 }
 
 // FitsInvDistance reports whether the inverse distance is the last parameter.
