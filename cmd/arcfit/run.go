@@ -99,7 +99,7 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		return exitOK
 	}
 	if c.run == nil {
-		fmt.Fprintf(stderr, "arcfit %s: not built yet in this version of arcfit (%s); \"arcfit inspect\" and \"arcfit demo\" work now\n", c.name, version)
+		fmt.Fprintf(stderr, "arcfit %s: not built yet in this version of arcfit (%s); these work now: %s\n", c.name, version, builtNames(cmds))
 		return exitUsage
 	}
 	err := c.run(args[1:], io)
@@ -278,4 +278,16 @@ func flagHelp(fs *pflag.FlagSet) string {
 		fmt.Fprintf(&b, "  %-*s  %s\n", width, l.left, l.right)
 	}
 	return b.String()
+}
+
+// builtNames lists the commands that are built, in table order, for the
+// message of a command that is not.
+func builtNames(cmds []*command) string {
+	var names []string
+	for _, c := range cmds {
+		if c.run != nil {
+			names = append(names, c.name)
+		}
+	}
+	return strings.Join(names, ", ")
 }
