@@ -180,13 +180,19 @@ func Compare(tr *Track, models []Model, s Settings, at []astro.JD, site *astro.S
 	c.HorizonDays, c.HorizonBeforeDays, c.HorizonAfterDays, c.HorizonRule = h.days, h.before, h.after, h.rule
 
 	// The horizon compares the models' formal covariances; the predictions
-	// below carry each model's widening for its cross-validated misses.
+	// below carry each model's measured error between nights.
+	meanVar := meanObsVarianceArcsec2(tr)
 	for i := range c.Rows {
 		row := &c.Rows[i]
-		if k := row.CVNormRMS; row.Solution != nil && k > 1 && !math.IsInf(k, 0) {
-			row.Solution.PredictionScale = k * k
+		cv := row.CVErrorArcsec
+		if row.Solution == nil || math.IsNaN(cv) || math.IsInf(cv, 0) {
+			continue
+		}
+		if excess := cv*cv - meanVar; excess > 0 {
+			row.Solution.ModelErrorArcsec = math.Sqrt(excess)
 			row.Solution.Notes = append(row.Solution.Notes, fmt.Sprintf(
-				"the nights left out were missed by %.2f times what the covariance allowed: the search region is widened by that factor", k))
+				"the nights left out were missed by %.2f″ RMS against the observations' %.2f″: the excess, %.2f″, is added to every prediction's uncertainty",
+				cv, math.Sqrt(meanVar), row.Solution.ModelErrorArcsec))
 		}
 	}
 
@@ -329,4 +335,23 @@ func lowerBeyondTie(a, b float64) bool {
 		return true
 	}
 	return a < b-1e-9*math.Max(math.Abs(b), 1)
+}
+
+// meanObsVarianceArcsec2 returns the mean of the used observations' σ² over
+// both coordinates, in arcsec².
+func meanObsVarianceArcsec2(tr *Track) float64 {
+	as := astro.Arcsecond.Radians()
+	var sum float64
+	n := 0
+	for _, p := range tr.Points {
+		if !p.Used {
+			continue
+		}
+		sum += (p.SigmaXi*p.SigmaXi + p.SigmaEta*p.SigmaEta) / (as * as)
+		n += 2
+	}
+	if n == 0 {
+		return 0
+	}
+	return sum / float64(n)
 }

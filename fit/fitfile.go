@@ -203,6 +203,7 @@ type fitFile struct {
 	DoF           int           `json:"dof"`
 	Chi2DoF       *float64      `json:"chi2_dof"`
 	Scaled        bool          `json:"scaled"`
+	ModelError    float64       `json:"model_error_arcsec"`
 	Cond          *float64      `json:"cond"`
 	NumObs        int           `json:"n_obs"`
 	NumUsed       int           `json:"n_used"`
@@ -389,6 +390,7 @@ func MarshalFitFile(f *SavedFit) ([]byte, error) {
 		DoF:           s.DoF,
 		Chi2DoF:       optional(s.Chi2DoF),
 		Scaled:        s.Scaled,
+		ModelError:    s.ModelErrorArcsec,
 		Cond:          optional(s.Cond),
 		NumObs:        len(tr.Points),
 		NumUsed:       s.NumUsed,
@@ -905,6 +907,9 @@ func (r *fitFileReader) build(ff *fitFile) (*SavedFit, error) {
 		return nil, r.fail("inverse_distance_per_au", "a number or null", fmt.Sprint(*ff.InvDistance), ErrFitFile)
 	}
 
+	if !(ff.ModelError >= 0) || math.IsInf(ff.ModelError, 0) {
+		return nil, r.fail("model_error_arcsec", "a number ≥ 0", fmt.Sprint(ff.ModelError), ErrFitFile)
+	}
 	sol := &Solution{
 		Model:            m,
 		Settings:         st,
@@ -915,6 +920,7 @@ func (r *fitFileReader) build(ff *fitFile) (*SavedFit, error) {
 		DoF:              ff.DoF,
 		Chi2DoF:          valueOr(ff.Chi2DoF),
 		Scaled:           ff.Scaled,
+		ModelErrorArcsec: ff.ModelError,
 		Cond:             valueOr(ff.Cond),
 		NumUsed:          ff.NumUsed,
 		RMSArcsec:        valueOr(ff.RMSArcsec),

@@ -122,12 +122,9 @@ func (s *Solution) Predict(utc astro.JD, site *astro.Site) (Prediction, error) {
 	}
 	pr.CovArcsec2[0][1] = 0.5 * (pr.CovArcsec2[0][1] + pr.CovArcsec2[1][0])
 	pr.CovArcsec2[1][0] = pr.CovArcsec2[0][1]
-	if k := s.PredictionScale; k > 1 && !math.IsInf(k, 0) {
-		for a := 0; a < 2; a++ {
-			for b := 0; b < 2; b++ {
-				pr.CovArcsec2[a][b] *= k
-			}
-		}
+	if m := s.ModelErrorArcsec; m > 0 && !math.IsInf(m, 0) {
+		pr.CovArcsec2[0][0] += m * m
+		pr.CovArcsec2[1][1] += m * m
 	}
 	pr.RA, pr.Dec = s.Track.Plane.Deproject(xi, eta)
 

@@ -111,13 +111,15 @@ type Solution struct {
 	// Notes are plain-words remarks: scaled covariance, a parallax left out,
 	// a poorly determined distance, outliers flagged.
 	Notes []string
-	// PredictionScale multiplies the covariance of every prediction; 0 or 1
-	// means none. [Compare] sets it to the square of the model's
-	// cross-validated normalised miss when that exceeds 1: the model then
-	// missed the nights left out by more than its own covariance allowed
-	// (a bias between nights that the formal covariance cannot show), and its
-	// search region is widened by that factor so that it stays honest.
-	PredictionScale float64
+	// ModelErrorArcsec is a measured model error between nights, in
+	// arcseconds per coordinate, added in quadrature to the covariance of
+	// every prediction; 0 means none. [Compare] sets it from the
+	// leave-one-night-out cross-validation: when the model missed the nights
+	// it did not see by more than the observations' own scatter, the excess
+	// √(CV² − σ̄²) (σ̄² the mean of the used observations' σ², both
+	// coordinates) is a bias the formal covariance cannot show, and the
+	// search region is widened by it so that it stays honest.
+	ModelErrorArcsec float64
 }
 
 // FitsInvDistance reports whether the inverse distance is the last parameter.

@@ -10,20 +10,6 @@ func pendingCommand(name, summary, usage, about, example string) *command {
 	return &command{name: name, summary: summary, usage: usage, about: about, example: example}
 }
 
-func fitCommand() *command {
-	return pendingCommand("fit", "fit motion models to the observations",
-		"arcfit fit OBS [--sites FILE] [--json | --csv]",
-		"Fits sky-plane polynomials, piecewise-linear motion and a two-body orbit by weighted least squares, prints the residuals, flags outliers, compares the models and saves the fit.",
-		"arcfit fit observations.csv --sites sites.csv")
-}
-
-func predictCommand() *command {
-	return pendingCommand("predict", "position and search region at a time",
-		"arcfit predict OBS|FIT --at TIME [--site SITE] [--json | --csv]",
-		"Gives the position at a time, for a site, with the search region the fit allows, drawn at a chosen sigma level. A target near the Sun is answered with a warning that pointing near the Sun can blind and destroy equipment.",
-		`arcfit predict observations.csv --at 2027-02-20T03:00:00Z --site "Alder Ridge" --sites sites.csv`)
-}
-
 func planCommand() *command {
 	return pendingCommand("plan", "a night's schedule for many targets",
 		"arcfit plan TARGETS --date DATE [--site SITE] [--json | --csv]",

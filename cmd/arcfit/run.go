@@ -49,8 +49,8 @@ type command struct {
 func commands() []*command {
 	return []*command{
 		inspectCommand(),
-		fitCommand(),
-		predictCommand(),
+		newFitCommand(),
+		newPredictCommand(),
 		nightCommand(),
 		planCommand(),
 		ephemCommand(),
