@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"io"
@@ -11,6 +12,7 @@ import (
 
 	"github.com/spf13/pflag"
 
+	"arcfit/fit"
 	"arcfit/fit/demo"
 )
 
@@ -34,8 +36,9 @@ func demoCommand() *command {
 		usage:   "arcfit demo [--dir DIR] [--json]",
 		about: "Writes the built-in demo data into DIR: invented observations of an invented asteroid, \"" +
 			demo.ObjectName + "\", from two invented sites on three nights of February 2027, and the sites file. " +
-			"Then runs on them every step arcfit has built so far, today inspect. As fit, predict and night are " +
-			"built, the demo will run them too. It overwrites only files that are the demo's own.",
+			"Then runs on them every step arcfit has built so far: inspect, fit (saving the fit to demo-fit.json), " +
+			"predict for the next two nights from Alder Ridge, and the sky of that night. It overwrites only files " +
+			"that are the demo's own.",
 		example: "arcfit demo --dir ./arcfit-demo",
 		flags:   func() *pflag.FlagSet { return demoFlags(&demoOptions{}, io.Discard) },
 		run: func(args []string, io streams) error {
@@ -83,17 +86,81 @@ func runDemo(o demoOptions, io streams) error {
 	}
 	fmt.Fprintf(io.Err, "arcfit demo: invented data: %s seen from two invented sites, February 2027\n", demo.ObjectName)
 
-	err := runInspect(inspectOptions{
-		file:      filepath.Join(o.dir, demo.ObservationsFile),
-		sitesFile: filepath.Join(o.dir, demo.SitesFile),
-		json:      o.json,
-	}, io)
+	obsPath := filepath.Join(o.dir, demo.ObservationsFile)
+	sitesPath := filepath.Join(o.dir, demo.SitesFile)
+	fitPath := filepath.Join(o.dir, demoFitFile)
+	if err := checkFitOverwrite(fitPath); err != nil {
+		return err
+	}
+	steps := []demoStep{
+		{"inspect", "what was read", []string{"inspect", obsPath, "--sites", sitesPath}},
+		{"fit", "the motion models fitted, compared and saved", []string{"fit", obsPath, "--sites", sitesPath, "--save", fitPath}},
+		{"predict", "where it will be from Alder Ridge, the next night and the night after (the second lies beyond the fit's validity horizon)",
+			[]string{"predict", fitPath, "--at", demoPredictTimes, "--site", "Alder Ridge", "--sites", sitesPath}},
+		{"night", "the sky of that night at Alder Ridge", []string{"night", "--date", demoNightDate, "--site", "Alder Ridge", "--sites", sitesPath}},
+	}
+	cmds := commands()
+	parts := make(map[string]json.RawMessage, len(steps))
+	for k, st := range steps {
+		c := find(cmds, st.args[0])
+		args := st.args[1:]
+		var out bytes.Buffer
+		w := io.Out
+		if o.json {
+			args = append(args, "--json")
+			w = &out
+		} else {
+			if k > 0 {
+				fmt.Fprintln(io.Out)
+			}
+			fmt.Fprintf(io.Out, "== arcfit %s: %s\n\n", st.name, st.what)
+		}
+		if err := c.run(args, streams{In: io.In, Out: w, Err: io.Err}); err != nil {
+			return fmt.Errorf("%s step: %w", st.name, err)
+		}
+		if o.json {
+			parts[st.name] = json.RawMessage(bytes.TrimSpace(out.Bytes()))
+		}
+	}
+	if o.json {
+		b, err := json.MarshalIndent(parts, "", "  ")
+		if err != nil {
+			return err
+		}
+		fmt.Fprintf(io.Out, "%s\n", b)
+	}
+	fmt.Fprintln(io.Err, "arcfit demo: still to come: night with the target (where to point, with a chart), plan and simulate.")
+	return nil
+}
+
+// demoStep is one command the demo runs.
+type demoStep struct {
+	name, what string
+	args       []string
+}
+
+// The demo's fit file, prediction times and night: the object was last seen
+// on the night of 2027-02-07 at Alder Ridge; the demo asks for the next
+// night and the one after.
+const (
+	demoFitFile      = "demo-fit.json"
+	demoPredictTimes = "2027-02-09T04:00:00Z,2027-02-10T04:00:00Z"
+	demoNightDate    = "2027-02-08"
+)
+
+// checkFitOverwrite refuses to replace an existing file at the demo's fit
+// path that is not a fit file.
+func checkFitOverwrite(path string) error {
+	data, err := os.ReadFile(path)
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil
+	}
 	if err != nil {
 		return err
 	}
-	fmt.Fprintln(io.Err, "arcfit demo: next, once built: fit will fit motion models to these observations and show the residuals;")
-	fmt.Fprintln(io.Err, "arcfit demo: predict will give the position and search region at a chosen time; night will say where")
-	fmt.Fprintln(io.Err, "arcfit demo: to point on a chosen night. Those steps are not built yet, so the demo stops here.")
+	if !fit.IsFitFile(data) {
+		return usagef("%s exists and is not a fit file; not overwriting it (choose another --dir)", path)
+	}
 	return nil
 }
 

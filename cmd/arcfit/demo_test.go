@@ -13,7 +13,8 @@ import (
 
 // TestDemoWritesAndInspects runs the demo into a temporary directory: the
 // files written must be the embedded ones byte for byte, stderr must say
-// where they went and what is not built yet, stdout must be inspect's output.
+// where they went and what is still to come, stdout must hold every step's
+// output: inspect, fit, predict and the night's sky.
 func TestDemoWritesAndInspects(t *testing.T) {
 	dir := filepath.Join(t.TempDir(), "new", "demo") // made by the command
 	code, out, errs := runArgs(t, "demo", "--dir", dir)
@@ -34,14 +35,24 @@ func TestDemoWritesAndInspects(t *testing.T) {
 		}
 	}
 	entries, _ := os.ReadDir(dir)
-	if len(entries) != 2 {
-		t.Errorf("demo: %d entries in %s, want the 2 files (no temporary left)", len(entries), dir)
+	if len(entries) != 3 {
+		t.Errorf("demo: %d entries in %s, want the 2 files and the fit file (no temporary left)", len(entries), dir)
 	}
-	if !strings.Contains(errs, "not built yet") {
-		t.Errorf("demo: stderr does not say which steps are not built yet:\n%s", errs)
+	if _, err := os.Stat(filepath.Join(dir, demoFitFile)); err != nil {
+		t.Errorf("demo: no fit file: %v", err)
 	}
-	if !strings.Contains(out, "14 observations, 14 in use") || !strings.Contains(out, "3 nights, 2 sites") {
-		t.Errorf("demo: stdout is not the inspect summary of the demo data:\n%s", out)
+	if !strings.Contains(errs, "still to come") {
+		t.Errorf("demo: stderr does not say which steps are still to come:\n%s", errs)
+	}
+	for _, want := range []string{
+		"14 observations, 14 in use", "3 nights, 2 sites", // inspect
+		"chosen model:", "residuals, observed − computed", // fit
+		"2027-02-09T04:00:00.00Z", "beyond horizon", // predict
+		"dark window:", // night
+	} {
+		if !strings.Contains(out, want) {
+			t.Errorf("demo: stdout lacks %q:\n%s", want, out)
+		}
 	}
 
 	// A second run over its own files is fine; --json gives one JSON object.
@@ -53,8 +64,29 @@ func TestDemoWritesAndInspects(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &v); err != nil {
 		t.Errorf("demo --json: stdout is not one JSON object: %v", err)
 	}
-	if v["observation_count"] != 14.0 {
-		t.Errorf("demo --json: observation_count %v, want 14 (rows of the demo file)", v["observation_count"])
+	ins, _ := v["inspect"].(map[string]any)
+	if ins["observation_count"] != 14.0 {
+		t.Errorf("demo --json: inspect.observation_count %v, want 14 (rows of the demo file)", ins["observation_count"])
+	}
+	fitv, _ := v["fit"].(map[string]any)
+	if _, ok := fitv["model"].(string); !ok {
+		t.Errorf("demo --json: fit.model missing: %v", v["fit"])
+	}
+	pred, _ := v["predict"].(map[string]any)
+	rows, _ := pred["rows"].([]any)
+	if len(rows) != 2 {
+		t.Fatalf("demo --json: predict.rows has %d rows, want the 2 times of demoPredictTimes", len(rows))
+	}
+	// The horizon the fit reports (checked in fit's tests) puts the first
+	// time inside it and the second beyond it; the demo's text says so.
+	first, _ := rows[0].(map[string]any)
+	second, _ := rows[1].(map[string]any)
+	if first["beyond_horizon"] != false || second["beyond_horizon"] != true {
+		t.Errorf("demo --json: beyond_horizon %v, %v; want false, true", first["beyond_horizon"], second["beyond_horizon"])
+	}
+	night, _ := v["night"].(map[string]any)
+	if _, ok := night["sunset_utc"].(string); !ok {
+		t.Errorf("demo --json: night.sunset_utc missing: %v", v["night"])
 	}
 }
 
