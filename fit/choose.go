@@ -134,6 +134,7 @@ func Compare(tr *Track, models []Model, s Settings, at []astro.JD, site *astro.S
 		return nil, errors.New("fit: no models to compare")
 	}
 	c := &Comparison{HorizonDays: math.NaN(), HorizonBeforeDays: math.NaN(), HorizonAfterDays: math.NaN()}
+	jinv := planeJacobians(tr) // shared by every model's fit and folds
 	var firstErr error
 	firstErrParams := math.MaxInt
 	for _, m := range models {
@@ -145,7 +146,7 @@ func Compare(tr *Track, models []Model, s Settings, at []astro.JD, site *astro.S
 		if s.Parallax == ParallaxFit {
 			row.NumParams++
 		}
-		sol, err := Fit(tr, m, s)
+		sol, err := fitWith(tr, m, s, nil, jinv, false, nil)
 		if err != nil {
 			row.Err = err.Error()
 			if row.NumParams < firstErrParams {
@@ -159,7 +160,7 @@ func Compare(tr *Track, models []Model, s Settings, at []astro.JD, site *astro.S
 		row.RMSArcsec = sol.RMSArcsec
 		row.Chi2DoF = sol.Chi2DoF
 		row.BIC = BIC(sol)
-		row.CV = CrossValidate(sol)
+		row.CV = crossValidate(sol, jinv)
 		row.CVErrorArcsec = row.CV.RMSArcsec
 		row.CVSEArcsec = row.CV.SEArcsec
 		row.CVNormRMS = row.CV.NormRMS

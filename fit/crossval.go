@@ -84,7 +84,11 @@ const MinCVNights = 3
 // §7.10.1); leaving out whole nights keeps each night's correlated errors
 // (site, weather, reference stars) out of its own prediction, as in
 // grouped ("leave-one-group-out") cross-validation.
-func CrossValidate(full *Solution) CrossValidation {
+func CrossValidate(full *Solution) CrossValidation { return crossValidate(full, nil) }
+
+// crossValidate is [CrossValidate] with the inverse plane Jacobians of the
+// full track's points when the caller has them (nil computes them).
+func crossValidate(full *Solution, jinv [][2][2]float64) CrossValidation {
 	cv := CrossValidation{RMSArcsec: math.NaN(), SEArcsec: math.NaN(), NormRMS: math.NaN()}
 	tr := full.Track
 	spans := usedNightSpans(tr)
@@ -104,13 +108,36 @@ func CrossValidate(full *Solution) CrossValidation {
 			flaggedObs[tr.Points[i].ObsIndex] = true
 		}
 	}
-	frame := newPlaneFrame(tr.Plane)
+	// The design of the whole track, built once: a polynomial fold is fitted
+	// on it, restricted to the fold's points, which gives the fit of the
+	// fold's Subset; a piecewise fold, with knots of its own, fits its
+	// Subset with a design of its own (from the same Jacobians).
+	fitU := full.Settings.Parallax == ParallaxFit && tr.hasSite()
+	fd := newDesign(tr, full.Model, full.Settings, fitU, jinv)
+	defer fd.release()
+	keep := make([]int, 0, len(tr.Points))
+	only := make([]bool, len(tr.Points))
 	var sumSq, sumChi2 float64
 	var foldMS []float64
 	for _, sp := range spans {
 		k := sp.night
-		sub := tr.Subset(func(p Point) bool { return p.Night != k && !flaggedObs[p.ObsIndex] })
-		sol, err := fitFold(sub, full.Model, full.Settings)
+		in := func(p Point) bool { return p.Night != k && !flaggedObs[p.ObsIndex] }
+		var sol *Solution
+		var err error
+		if full.Model.Kind != KindPiecewise {
+			for i, p := range tr.Points {
+				only[i] = in(p)
+			}
+			sol, err = fitWith(tr, full.Model, full.Settings.foldSettings(), fd, nil, true, only)
+		} else {
+			keep = keep[:0]
+			for i, p := range tr.Points {
+				if in(p) {
+					keep = append(keep, i)
+				}
+			}
+			sol, err = fitFold(tr.Subset(in), full.Model, full.Settings, fd.gather(keep))
+		}
 		if err != nil {
 			cv.Failed = append(cv.Failed, k)
 			cv.Notes = append(cv.Notes, fmt.Sprintf("night %d left out: %v", k+1, strings.TrimPrefix(err.Error(), "fit: ")))
@@ -122,7 +149,7 @@ func CrossValidate(full *Solution) CrossValidation {
 			if p.Night != k || !p.Used || flagged[i] {
 				continue
 			}
-			m := missAt(sol, frame, p)
+			m := missAt(sol, fd.jinv[i], p)
 			m.Night = k
 			cv.Misses = append(cv.Misses, m)
 			sq := m.DRAArcsec*m.DRAArcsec + m.DDecArcsec*m.DDecArcsec
@@ -161,14 +188,15 @@ func CrossValidate(full *Solution) CrossValidation {
 }
 
 // fitFold fits the model to a fold's track with no further outlier
-// rejection (the full fit's flagged points are already left out). A piecewise
+// rejection (the full fit's flagged points are already left out), with the
+// fold's design d when the caller has it (see [fitWith]). A piecewise
 // model keeps the full track's knots that have fold data on both sides, one
 // per gap of the fold (several knots in one gap become that gap's mid-point);
 // a fold left with one night fits a straight line.
-func fitFold(sub *Track, m Model, s Settings) (*Solution, error) {
-	s.KeepAll = true
+func fitFold(sub *Track, m Model, s Settings, d *design) (*Solution, error) {
+	s = s.foldSettings()
 	if m.Kind != KindPiecewise {
-		return Fit(sub, m, s)
+		return fitWith(sub, m, s, d, nil, true, nil)
 	}
 	spans := usedNightSpans(sub)
 	var knots []float64
@@ -187,14 +215,24 @@ func fitFold(sub *Track, m Model, s Settings) (*Solution, error) {
 			knots = append(knots, 0.5*(a.end+b.first))
 		}
 	}
-	return Fit(sub, Piecewise(knots), s)
+	// The fold's own knots change the basis: a new design, with the
+	// Jacobians of d's points.
+	var jinv [][2][2]float64
+	if d != nil {
+		jinv = make([][2][2]float64, len(sub.Points))
+		for i := range jinv {
+			jinv[i] = d.jinv[d.src(i)]
+		}
+	}
+	return fitWith(sub, Piecewise(knots), s, nil, jinv, true, nil)
 }
 
 // missAt returns the miss of point p under the solution: the observed minus
 // the modelled topocentric standard coordinates (the same model equation the
 // fit uses, ξ = Σ c_j b_j(τ) − u·SiteXi), turned into RA·cos δ and Dec, and
-// its χ² with the observation's and the prediction's covariance.
-func missAt(sol *Solution, frame planeFrame, p Point) CVMiss {
+// its χ² with the observation's and the prediction's covariance; jinv is
+// the inverse of the projection's Jacobian at p (see planeJacobians).
+func missAt(sol *Solution, jinv [2][2]float64, p Point) CVMiss {
 	m := sol.Model
 	nb := m.NumPerCoord()
 	var bbuf [8]float64
@@ -270,7 +308,6 @@ func missAt(sol *Solution, frame planeFrame, p Point) CVMiss {
 		chi2 = (ctot[1][1]*dxi*dxi - 2*ctot[0][1]*dxi*deta + ctot[0][0]*deta*deta) / det
 	}
 	// Plane offsets to sky offsets (east = RA·cos δ, north = Dec).
-	jinv := inv2(frame.skyToPlane(p.Xi, p.Eta))
 	de := jinv[0][0]*dxi + jinv[0][1]*deta
 	dn := jinv[1][0]*dxi + jinv[1][1]*deta
 	return CVMiss{
@@ -290,4 +327,11 @@ func solutionInvDistance(sol *Solution) (u float64, fitted bool) {
 		u = 0
 	}
 	return u, sol.FitsInvDistance()
+}
+
+// foldSettings returns the settings of a cross-validation fold: s without
+// outlier rejection.
+func (s Settings) foldSettings() Settings {
+	s.KeepAll = true
+	return s
 }

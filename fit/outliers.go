@@ -19,7 +19,7 @@ import (
 // Reference: Press et al., Numerical Recipes, 3rd ed. (2007), §15.6 (the
 // χ²(2) level 11.8 for 99.73 %); §15.7 on the fragility of least squares to
 // outliers.
-func rejectOutliers(tr *Track, m Model, s Settings, fitU bool, active []bool, sol *Solution, jinv [][2][2]float64) (*Solution, error) {
+func rejectOutliers(tr *Track, m Model, s Settings, fitU bool, active []bool, sol *Solution, d *design) (*Solution, error) {
 	thr := s.RejectChi2
 	if thr == 0 {
 		thr = DefaultRejectChi2
@@ -35,15 +35,15 @@ func rejectOutliers(tr *Track, m Model, s Settings, fitU bool, active []bool, so
 	flagged := 0
 	for flagged < maxFlag {
 		worst, worstStat := -1, 0.0
-		for i, r := range sol.Residuals {
+		for i, chi2 := range d.ws.chi2 { // the points' χ² under sol
 			if !active[i] {
 				continue
 			}
 			scale := 1.0
 			if sol.DoF > 2 {
-				scale = math.Max(1, (sol.Chi2-r.Chi2)/float64(sol.DoF-2))
+				scale = math.Max(1, (sol.Chi2-chi2)/float64(sol.DoF-2))
 			}
-			if st := r.Chi2 / scale; st > worstStat {
+			if st := chi2 / scale; st > worstStat {
 				worst, worstStat = i, st
 			}
 		}
@@ -58,7 +58,7 @@ func rejectOutliers(tr *Track, m Model, s Settings, fitU bool, active []bool, so
 			active[worst] = true
 			break
 		}
-		next, err := solve(tr, m, s, fitU, active, jinv)
+		next, err := solve(tr, m, s, fitU, active, d)
 		if err != nil {
 			// Removing the point made the design singular: keep it.
 			active[worst] = true

@@ -127,12 +127,18 @@ func selectKnotsModel(tr *Track, knots []float64, s Settings) (Model, error) {
 		return Piecewise(nil), ErrNoGap
 	}
 	cur := Piecewise(knots)
-	sol, err := Fit(tr, cur, s)
+	// The inverse plane Jacobians are the same for every candidate: computed
+	// once for the track and for the points the elimination fits.
+	jinv := planeJacobians(tr)
+	sol, err := fitWith(tr, cur, s, nil, jinv, false, nil)
 	work, ws := tr, s
 	if err == nil && !s.KeepAll {
 		work, ws = withoutFlagged(tr, sol), s
 		ws.KeepAll = true
 	}
+	workJ := subsetJacobians(tr, work, jinv)
+	// The candidates' fits are compared by their BIC only: lean fits.
+	fitWork := func(m Model) (*Solution, error) { return fitWith(work, m, ws, nil, workJ, true, nil) }
 	// Repair a model that cannot be fitted: drop, one at a time, the knot
 	// whose removal gives the lowest BIC among the fits that succeed.
 	for err != nil {
@@ -142,14 +148,14 @@ func selectKnotsModel(tr *Track, knots []float64, s Settings) (Model, error) {
 		var bestSol *Solution
 		bestI := -1
 		for i := range cur.Knots {
-			s2, e2 := Fit(work, Piecewise(without(cur.Knots, i)), ws)
+			s2, e2 := fitWork(Piecewise(without(cur.Knots, i)))
 			if e2 == nil && (bestSol == nil || BIC(s2) < BIC(bestSol)) {
 				bestI, bestSol = i, s2
 			}
 		}
 		if bestSol == nil {
 			cur = Piecewise(cur.Knots[:len(cur.Knots)-1])
-			sol, err = Fit(work, cur, ws)
+			sol, err = fitWork(cur)
 			continue
 		}
 		cur, sol, err = Piecewise(without(cur.Knots, bestI)), bestSol, nil
@@ -158,7 +164,7 @@ func selectKnotsModel(tr *Track, knots []float64, s Settings) (Model, error) {
 	for len(cur.Knots) > 1 {
 		bestI, bestBIC := -1, bic
 		for i := range cur.Knots {
-			s2, e2 := Fit(work, Piecewise(without(cur.Knots, i)), ws)
+			s2, e2 := fitWork(Piecewise(without(cur.Knots, i)))
 			if e2 != nil {
 				continue
 			}

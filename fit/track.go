@@ -252,8 +252,12 @@ func (tr *Track) Subset(keep func(p Point) bool) *Track {
 	out := *tr
 	out.Points = nil
 	seen := map[int]bool{}
-	for _, p := range tr.Points {
+	for i, p := range tr.Points {
 		if keep(p) {
+			if out.Points == nil {
+				// Room for the rest, allocated once.
+				out.Points = make([]Point, 0, len(tr.Points)-i)
+			}
 			out.Points = append(out.Points, p)
 			if p.Used {
 				seen[p.Night] = true

@@ -171,6 +171,19 @@ const singularCond = 1e12
 // Recipes, 3rd ed. (2007), §15.4, §15.6; Bevington & Robinson (2003), ch. 11
 // (scaling by χ²/dof).
 func Fit(tr *Track, m Model, s Settings) (*Solution, error) {
+	return fitWith(tr, m, s, nil, nil, false, nil)
+}
+
+// fitWith is [Fit] with a design of tr's points already built for the model
+// (see [design.gather]) or, when d is nil or does not match the columns the
+// fit needs, with the design built here, from the inverse plane Jacobians
+// jinv of tr's points when given (see planeJacobians; nil computes them).
+// The results are those of Fit, except that with lean the solution has no
+// Residuals and no RMSArcsec (for a cross-validation fold, of which only the
+// parameters and their covariance are used). A non-nil only restricts the
+// fit to the used points i with only[i]: a fold fitted on the whole track's
+// design gives the fit of the fold's Subset (the solution's Track is tr).
+func fitWith(tr *Track, m Model, s Settings, d *design, jinv [][2][2]float64, lean bool, only []bool) (*Solution, error) {
 	if tr == nil {
 		return nil, errors.New("fit: no track")
 	}
@@ -195,15 +208,15 @@ func Fit(tr *Track, m Model, s Settings) (*Solution, error) {
 	if m.Kind == KindPiecewise {
 		m = Piecewise(m.Knots)
 	}
-	var notes []string
-	fitU := s.Parallax == ParallaxFit
-	if fitU && !tr.hasSite() {
-		fitU = false
-		notes = append(notes, "all observations are geocentric: no parallax term")
-	}
 	active := make([]bool, len(tr.Points))
 	for i, p := range tr.Points {
-		active[i] = p.Used
+		active[i] = p.Used && (only == nil || only[i])
+	}
+	var notes []string
+	fitU := s.Parallax == ParallaxFit
+	if fitU && !hasSite(tr, active) {
+		fitU = false
+		notes = append(notes, "all observations are geocentric: no parallax term")
 	}
 	if err := checkCount(tr, m, fitU, active); err != nil {
 		return nil, err
@@ -211,16 +224,22 @@ func Fit(tr *Track, m Model, s Settings) (*Solution, error) {
 	if err := checkKnots(tr, m, active); err != nil {
 		return nil, err
 	}
-	jinv := planeJacobians(tr)
-	sol, err := solve(tr, m, s, fitU, active, jinv)
+	if !d.fits(tr, m, s, fitU) {
+		d = newDesign(tr, m, s, fitU, jinv)
+		defer d.release()
+	}
+	sol, err := solve(tr, m, s, fitU, active, d)
 	if err != nil {
 		return nil, err
 	}
 	if !s.KeepAll {
-		sol, err = rejectOutliers(tr, m, s, fitU, active, sol, jinv)
+		sol, err = rejectOutliers(tr, m, s, fitU, active, sol, d)
 		if err != nil {
 			return nil, err
 		}
+	}
+	if !lean {
+		sol.fillResiduals(active, d)
 	}
 	sol.Notes = append(notes, sol.Notes...)
 	return sol, nil
@@ -230,6 +249,16 @@ func Fit(tr *Track, m Model, s Settings) (*Solution, error) {
 func (tr *Track) hasSite() bool {
 	for _, p := range tr.Points {
 		if p.Used && (p.SiteXi != 0 || p.SiteEta != 0) {
+			return true
+		}
+	}
+	return false
+}
+
+// hasSite reports whether any active point of tr has a non-zero site vector.
+func hasSite(tr *Track, active []bool) bool {
+	for i, p := range tr.Points {
+		if active[i] && (p.SiteXi != 0 || p.SiteEta != 0) {
 			return true
 		}
 	}
@@ -300,8 +329,10 @@ func checkKnots(tr *Track, m Model, active []bool) error {
 	return nil
 }
 
-// solve performs one weighted least-squares fit of the active points.
-func solve(tr *Track, m Model, s Settings, fitU bool, active []bool, jinv [][2][2]float64) (*Solution, error) {
+// solve performs one weighted least-squares fit of the active points, with
+// the rows of d (built for fitU, or for the first 2q columns of a design
+// built with the u column when fitU is false).
+func solve(tr *Track, m Model, s Settings, fitU bool, active []bool, d *design) (*Solution, error) {
 	q := m.NumPerCoord()
 	np := 2 * q
 	if fitU {
@@ -317,51 +348,10 @@ func solve(tr *Track, m Model, s Settings, fitU bool, active []bool, jinv [][2][
 	if rows < np {
 		return nil, &TooFewError{Model: m.Name(), Need: needFor(m, fitU), Have: distinctTimes(tr, active)}
 	}
-	uFixed := 0.0
-	if s.Parallax == ParallaxFixed {
-		uFixed = s.InvDistance
-	}
-	a := mat.NewDense(rows, np, nil)
-	b := mat.NewDense(rows, 1, nil)
-	f := make([]float64, q)
-	r := 0
-	for i, p := range tr.Points {
-		if !active[i] {
-			continue
-		}
-		m.basis(f, p.T/tr.TimeScaleDays, tr.TimeScaleDays)
-		l11, l21, l22 := cholesky2(p)
-		rx := a.RawRowView(r)
-		ry := a.RawRowView(r + 1)
-		// whitened ξ row: row/σξ
-		for j := 0; j < q; j++ {
-			rx[j] = f[j] / l11
-		}
-		// whitened η row: (row_η − l21·w_ξ)/l22
-		for j := 0; j < q; j++ {
-			ry[j] = -l21 * rx[j] / l22
-			ry[q+j] = f[j] / l22
-		}
-		bx := p.Xi + uFixed*p.SiteXi
-		by := p.Eta + uFixed*p.SiteEta
-		wx := bx / l11
-		b.Set(r, 0, wx)
-		b.Set(r+1, 0, (by-l21*wx)/l22)
-		if fitU {
-			ux := -p.SiteXi / l11
-			rx[np-1] = ux
-			ry[np-1] = (-p.SiteEta - l21*ux) / l22
-		}
-		r += 2
-	}
-	// Column scaling.
+	// Column scaling: each column's sum of squares, accumulated down the rows.
 	scale := make([]float64, np)
-	for j := 0; j < np; j++ {
-		var ss float64
-		for i := 0; i < rows; i++ {
-			v := a.At(i, j)
-			ss += v * v
-		}
+	a, b := d.system(active, n, np, scale)
+	for j, ss := range scale {
 		if ss == 0 {
 			if fitU && j == np-1 {
 				return nil, fmt.Errorf("%w (no used observation has a site position)", ErrParallaxNotEstimable)
@@ -371,16 +361,19 @@ func solve(tr *Track, m Model, s Settings, fitU bool, active []bool, jinv [][2][
 		scale[j] = math.Sqrt(ss)
 	}
 	for i := 0; i < rows; i++ {
-		row := a.RawRowView(i)
+		row := a[i*np : (i+1)*np]
 		for j := range row {
 			row[j] /= scale[j]
 		}
 	}
-	var qr mat.QR
-	qr.Factorize(a)
-	var rFull mat.Dense
-	qr.RTo(&rFull)
-	rr := mat.DenseCopyOf(rFull.Slice(0, np, 0, np))
+	solved := d.qrSolve(a, b, rows, np)
+	// R, the upper triangle of the factorised design.
+	rr := mat.NewDense(np, np, nil)
+	for i := 0; i < np; i++ {
+		for j := i; j < np; j++ {
+			rr.Set(i, j, a[i*np+j])
+		}
+	}
 	var svd mat.SVD
 	if !svd.Factorize(rr, mat.SVDNone) {
 		return nil, fmt.Errorf("%w: the singular value decomposition did not converge", ErrSingular)
@@ -395,16 +388,15 @@ func solve(tr *Track, m Model, s Settings, fitU bool, active []bool, jinv [][2][
 			// Is the parallax column to blame?
 			s2 := s
 			s2.Parallax = ParallaxOff
-			if _, err := solve(tr, m, s2, false, active, jinv); err == nil {
+			if _, err := solve(tr, m, s2, false, active, d); err == nil {
 				return nil, fmt.Errorf("%w (the parallax cannot be told from the %s motion terms; give a distance or turn the parallax term off)",
 					ErrParallaxNotEstimable, m.Name())
 			}
 		}
 		return nil, fmt.Errorf("%w: the observations cannot separate the %s parameters (condition number %.3g)", ErrSingular, m.Name(), cond)
 	}
-	var x mat.Dense
-	if err := qr.SolveTo(&x, false, b); err != nil {
-		return nil, fmt.Errorf("%w: %v", ErrSingular, err)
+	if !solved {
+		return nil, fmt.Errorf("%w: %v", ErrSingular, mat.Condition(math.Inf(1)))
 	}
 	// Covariance of the scaled parameters: R⁻¹R⁻ᵀ.
 	rt := mat.NewTriDense(np, mat.Upper, nil)
@@ -429,7 +421,7 @@ func solve(tr *Track, m Model, s Settings, fitU bool, active []bool, jinv [][2][
 	}
 	params := make([]float64, np)
 	for j := range params {
-		params[j] = x.At(j, 0) / scale[j]
+		params[j] = b[j] / scale[j]
 	}
 	sol := &Solution{
 		Model:            m,
@@ -449,7 +441,9 @@ func solve(tr *Track, m Model, s Settings, fitU bool, active []bool, jinv [][2][
 	case s.Parallax == ParallaxFixed:
 		sol.InvDistance, sol.InvDistanceSigma = s.InvDistance, 0
 	}
-	sol.fillResiduals(active, jinv)
+	// χ² only: the residuals in full are filled for the final solution
+	// (fitWith), the passes of the outlier rejection need only the points' χ².
+	sol.Chi2 = d.pointChi2(sol, active)
 	if sol.DoF > 0 {
 		sol.Chi2DoF = sol.Chi2 / float64(sol.DoF)
 	} else {
@@ -534,8 +528,14 @@ func planeJacobians(tr *Track) [][2][2]float64 {
 
 func (s *Solution) pointResidual(p Point, jinv [2][2]float64) Residual {
 	cx, ce := s.computed(p)
-	dx, de := p.Xi-cx, p.Eta-ce
 	l11, l21, l22 := cholesky2(p)
+	return residualOf(p, cx, ce, l11, l21, l22, jinv)
+}
+
+// residualOf returns the residual of point p from its computed ξ, η, the
+// Cholesky factor of its covariance and its inverse plane Jacobian.
+func residualOf(p Point, cx, ce, l11, l21, l22 float64, jinv [2][2]float64) Residual {
+	dx, de := p.Xi-cx, p.Eta-ce
 	z1 := dx / l11
 	z2 := (de - l21*z1) / l22
 	dE := jinv[0][0]*dx + jinv[0][1]*de
@@ -550,15 +550,31 @@ func (s *Solution) pointResidual(p Point, jinv [2][2]float64) Residual {
 	}
 }
 
-// fillResiduals computes the residuals of every point, χ² and the RMS of the
-// active points.
-func (s *Solution) fillResiduals(active []bool, jinv [][2][2]float64) {
+// fillResiduals computes the residuals of every point, χ² (as
+// design.pointChi2 does) and the RMS of the active points, with the basis values, Cholesky factors and plane Jacobians
+// cached in d (the same arithmetic as [Solution.computed] and
+// [Solution.pointResidual]).
+func (s *Solution) fillResiduals(active []bool, d *design) {
 	s.Residuals = make([]Residual, len(s.Track.Points))
 	s.Chi2 = 0
 	var ss float64
 	n := 0
+	q := d.q
+	u := s.InvDistance
 	for i, p := range s.Track.Points {
-		r := s.pointResidual(p, jinv[i])
+		k := d.src(i)
+		f := d.basis[k*q : (k+1)*q]
+		var cx, ce float64
+		for j := 0; j < q; j++ {
+			cx += s.Params[j] * f[j]
+			ce += s.Params[q+j] * f[j]
+		}
+		if !math.IsNaN(u) {
+			cx -= u * p.SiteXi
+			ce -= u * p.SiteEta
+		}
+		c := d.chol[k]
+		r := residualOf(p, cx, ce, c[0], c[1], c[2], d.jinv[k])
 		r.Used = active[i]
 		r.Flagged = p.Used && !active[i]
 		if active[i] {
