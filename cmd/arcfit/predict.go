@@ -50,7 +50,7 @@ func newPredictCommand() *command {
 			"validity horizon and when the search region is wider than the field of view (--fov). A target within 15 " +
 			"degrees of the Sun is answered with a warning on standard error: pointing a telescope near the Sun can " +
 			"blind and destroy equipment. TIME is UTC in ISO 8601 with a zone (2027-02-09T04:00:00Z) or JD and a " +
-			"Julian date; STEP is a number with d, h, min or m, or s (1d, 2h, 30m, 90s).",
+			"Julian date; STEP is days (d) and a Go duration (h, m, s): 1d, 2h, 30m, 90s, 1d12h.",
 		example: "arcfit predict observations.csv --sites sites.csv --at 2027-02-09T04:00:00Z --site \"Alder Ridge\"\n" +
 			"arcfit predict demo-fit.json --at 2027-02-09T02:00:00Z --to 2027-02-09T08:00:00Z --step 1h --site 44.52,-72.80,410 --json",
 		flags: func() *pflag.FlagSet { return predictFlags(&predictOptions{}, io.Discard) },
