@@ -343,14 +343,6 @@ func runFit(o fitOptions, io streams) error {
 	return err
 }
 
-// nf returns a pointer to v for JSON, nil (null) when v is NaN or infinite.
-func nf(v float64) *float64 {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return nil
-	}
-	return &v
-}
-
 // residualRow is one observation's residual as fit prints it.
 type residualRow struct {
 	Line       int     `json:"line"`
@@ -403,7 +395,7 @@ func nightRows(a *analysis) []nightRow {
 	for _, n := range sum.Nights {
 		r := nightRow{Date: n.Date, Site: n.Site, Count: n.Count}
 		if n.HasRate {
-			r.ObsRateArcsecPerMin, r.ObsRatePADeg = nf(round(n.RateArcsecPerMin, 4)), nf(round(n.PADeg, 2))
+			r.ObsRateArcsecPerMin, r.ObsRatePADeg = finite(round(n.RateArcsecPerMin, 4)), finite(round(n.PADeg, 2))
 		}
 		mid := n.First.AddDays(n.Last.Sub(n.First) / 2)
 		var st *astro.Site
@@ -411,7 +403,7 @@ func nightRows(a *analysis) []nightRow {
 			st = &s
 		}
 		if p, err := a.cmp.Solution.Predict(mid, st); err == nil {
-			r.ModelRateArcsecPerMin, r.ModelRatePADeg = nf(round(p.RateArcsecPerMin, 4)), nf(round(p.RatePA.Degrees(), 2))
+			r.ModelRateArcsecPerMin, r.ModelRatePADeg = finite(round(p.RateArcsecPerMin, 4)), finite(round(p.RatePA.Degrees(), 2))
 		}
 		out = append(out, r)
 	}
@@ -480,10 +472,10 @@ func inverseDistance(sol *fit.Solution) inverseDistanceJSON {
 		d.Mode = "off"
 		return d
 	}
-	d.ValuePerAU = nf(sol.InvDistance)
-	d.SigmaPerAU = nf(sol.InvDistanceSigma)
+	d.ValuePerAU = finite(sol.InvDistance)
+	d.SigmaPerAU = finite(sol.InvDistanceSigma)
 	if sol.InvDistance > 0 {
-		d.DistanceAU = nf(1 / sol.InvDistance)
+		d.DistanceAU = finite(1 / sol.InvDistance)
 	}
 	return d
 }
@@ -499,15 +491,15 @@ func writeFitJSON(w io.Writer, a *analysis, o fitOptions) error {
 		NumObs:            len(a.set.Obs),
 		NumUsed:           sol.NumUsed,
 		NumNights:         a.track.NumNights,
-		RMSArcsec:         nf(sol.RMSArcsec),
-		Chi2DoF:           nf(sol.Chi2DoF),
+		RMSArcsec:         finite(sol.RMSArcsec),
+		Chi2DoF:           finite(sol.Chi2DoF),
 		DoF:               sol.DoF,
 		Scaled:            sol.Scaled,
-		Cond:              nf(sol.Cond),
+		Cond:              finite(sol.Cond),
 		InverseDistance:   inverseDistance(sol),
-		HorizonDays:       nf(a.cmp.HorizonDays),
-		HorizonBeforeDays: nf(a.cmp.HorizonBeforeDays),
-		HorizonAfterDays:  nf(a.cmp.HorizonAfterDays),
+		HorizonDays:       finite(a.cmp.HorizonDays),
+		HorizonBeforeDays: finite(a.cmp.HorizonBeforeDays),
+		HorizonAfterDays:  finite(a.cmp.HorizonAfterDays),
 		HorizonRule:       a.cmp.HorizonRule,
 		EpochTT:           astro.FormatISO8601(a.track.EpochTT, 0),
 		PlaneRADeg:        a.track.Plane.RA0.Degrees(),
@@ -535,8 +527,8 @@ func writeFitJSON(w io.Writer, a *analysis, o fitOptions) error {
 	}
 	for _, r := range a.cmp.Rows {
 		m := modelRowJSON{Model: r.Model, Knots: append([]float64{}, r.Spec.Knots...), NumParams: r.NumParams,
-			RMSArcsec: nf(r.RMSArcsec), Chi2DoF: nf(r.Chi2DoF), BIC: nf(r.BIC), CVErrorArcsec: nf(r.CVErrorArcsec),
-			CVSEArcsec: nf(r.CVSEArcsec), Chosen: r.Chosen, Error: oneLine(r.Err)}
+			RMSArcsec: finite(r.RMSArcsec), Chi2DoF: finite(r.Chi2DoF), BIC: finite(r.BIC), CVErrorArcsec: finite(r.CVErrorArcsec),
+			CVSEArcsec: finite(r.CVSEArcsec), Chosen: r.Chosen, Error: oneLine(r.Err)}
 		if r.Pred != nil {
 			pj, err := predictionRecord(*r.Pred, o.sigma, 0)
 			if err != nil {

@@ -229,18 +229,18 @@ func predictionRecord(p fit.Prediction, sigma, fovArcmin float64) (predictionJSO
 		RateArcsecPerMin: p.RateArcsecPerMin,
 		RatePADeg:        p.RatePA.Degrees(),
 		BeyondHorizon:    p.BeyondHorizon,
-		HorizonDays:      nf(p.HorizonDays),
+		HorizonDays:      finite(p.HorizonDays),
 		NearSun:          pt.NearSun,
 		SunElongationDeg: pt.SunElongation.Degrees(),
 	}
 	if p.Site != nil {
 		name := p.Site.Name
 		r.Site = &name
-		r.AltDeg, r.AzDeg = nf(pt.Alt.Degrees()), nf(pt.Az.Degrees())
-		r.SunAltDeg = nf(pt.SunAlt.Degrees())
+		r.AltDeg, r.AzDeg = finite(pt.Alt.Degrees()), finite(pt.Az.Degrees())
+		r.SunAltDeg = finite(pt.SunAlt.Degrees())
 	}
 	if fovArcmin > 0 {
-		r.RegionFields = nf(2 * e.SemiMajorArcsec / (fovArcmin * 60))
+		r.RegionFields = finite(2 * e.SemiMajorArcsec / (fovArcmin * 60))
 	}
 	return r, nil
 }
