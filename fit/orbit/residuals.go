@@ -1,0 +1,40 @@
+package orbit
+
+import (
+	"math"
+)
+
+// Whitened returns the observation's residual (dE, dN) (radians, see
+// [Residual]) whitened by the Cholesky factor of its 2×2 covariance
+// [[σE², ρσEσN], [ρσEσN, σN²]]: w1 = dE/σE, w2 = (dN − ρσN·w1)/(σN√(1−ρ²)),
+// so that w1² + w2² is the observation's χ² contribution.
+func (o *Observation) Whitened(dE, dN float64) (w1, w2 float64) {
+	w1 = dE / o.SigmaRA
+	w2 = (dN - o.Corr*o.SigmaDec*w1) / (o.SigmaDec * math.Sqrt(1-o.Corr*o.Corr))
+	return w1, w2
+}
+
+// Residuals appends to dst the whitened residuals (two per used observation,
+// in order, see [Observation.Whitened]) of the orbit s against obs and
+// returns the extended slice and their sum of squares χ².
+//
+// Errors: those of [State.Observe] (a propagation that fails, a light time
+// that does not converge).
+func (s State) Residuals(obs []Observation, dst []float64) ([]float64, float64, error) {
+	chi2 := 0.0
+	for i := range obs {
+		o := &obs[i]
+		if !o.Used {
+			continue
+		}
+		seen, err := s.Observe(o.Geo)
+		if err != nil {
+			return dst, math.Inf(1), err
+		}
+		dE, dN := Residual(o.RA, o.Dec, seen.Dir)
+		w1, w2 := o.Whitened(dE, dN)
+		chi2 += w1*w1 + w2*w2
+		dst = append(dst, w1, w2)
+	}
+	return dst, chi2, nil
+}
