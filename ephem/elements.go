@@ -57,6 +57,10 @@ type Elements struct {
 
 	H, G float64 // absolute magnitude and slope parameter; NaN when absent
 
+	// Sigma holds the stated 1-σ uncertainties of the elements, nil when the
+	// set states none.
+	Sigma *ElementSigma
+
 	// GM is the gravitational parameter of the motion, au³/day²; 0 means GMSun.
 	// ElementsFromState records its gm here so that StateAt gives the state back.
 	GM float64

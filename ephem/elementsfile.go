@@ -64,11 +64,20 @@ const (
 	ecTp
 	ecH
 	ecG
+	ecSigA
+	ecSigE
+	ecSigI
+	ecSigNode
+	ecSigPeri
+	ecSigM
+	ecSigQ
+	ecSigTp
 	ecCount
 )
 
 // elementsColumns are the column names, indexed by the ec constants.
-var elementsColumns = [ecCount]string{"name", "epoch_tt", "a_au", "e", "i_deg", "node_deg", "peri_deg", "m_deg", "q_au", "tp_tt", "h", "g"}
+var elementsColumns = [ecCount]string{"name", "epoch_tt", "a_au", "e", "i_deg", "node_deg", "peri_deg", "m_deg", "q_au", "tp_tt", "h", "g",
+	"sigma_a_au", "sigma_e", "sigma_i_deg", "sigma_node_deg", "sigma_peri_deg", "sigma_m_deg", "sigma_q_au", "sigma_tp_days"}
 
 // elementsHeaderForms are the two forms of the header.
 const elementsHeaderForms = "name,epoch_tt,a_au,e,i_deg,node_deg,peri_deg,m_deg[,h,g] " +
@@ -433,6 +442,9 @@ func (er *elementsReader) row(line string, lineNo int, fields []csvField, idx *[
 			return Elements{}, err
 		}
 	}
+	if el.Sigma, err = er.sigmas(line, lineNo, fields, idx, aForm, filled, number); err != nil {
+		return Elements{}, err
+	}
 	if err := el.Validate(); err != nil { // every value was checked above; this is a last guard
 		return Elements{}, er.perr(line, lineNo, nf.off, "", "usable elements", "", oneLineText(err.Error()), obs.ErrRange)
 	}
@@ -484,7 +496,54 @@ func sameElements(a, b Elements) bool {
 	eq := func(x, y float64) bool { return x == y || math.IsNaN(x) && math.IsNaN(y) }
 	return a.Name == b.Name && a.Epoch == b.Epoch && a.A == b.A && a.E == b.E && a.I == b.I &&
 		a.Node == b.Node && a.Peri == b.Peri && a.M == b.M && a.Q == b.Q && a.Tp == b.Tp &&
-		eq(a.H, b.H) && eq(a.G, b.G)
+		eq(a.H, b.H) && eq(a.G, b.G) && (a.Sigma == nil) == (b.Sigma == nil) && (a.Sigma == nil || *a.Sigma == *b.Sigma)
+}
+
+// sigmas reads the optional 1-σ columns of a row: none filled gives nil;
+// otherwise every σ of the row's form must be given (a_au, e, i, node, peri,
+// m for the asteroid form; q_au, e, i, node, peri, tp for the comet form),
+// each finite and ≥ 0, and none of the other form's.
+func (er *elementsReader) sigmas(line string, lineNo int, fields []csvField, idx *[ecCount]int, aForm bool,
+	filled func(int) bool, number func(int, string, float64, float64) (float64, error)) (*ElementSigma, error) {
+	given := false
+	for k := ecSigA; k <= ecSigTp; k++ {
+		given = given || filled(k)
+	}
+	if !given {
+		return nil, nil
+	}
+	need := []int{ecSigA, ecSigE, ecSigI, ecSigNode, ecSigPeri, ecSigM}
+	other := []int{ecSigQ, ecSigTp}
+	form := "a_au,m_deg"
+	if !aForm {
+		need = []int{ecSigQ, ecSigE, ecSigI, ecSigNode, ecSigPeri, ecSigTp}
+		other = []int{ecSigA, ecSigM}
+		form = "q_au,tp_tt"
+	}
+	for _, k := range other {
+		if filled(k) {
+			f := fields[idx[k]-1]
+			return nil, er.perr(line, lineNo, f.off, elementsColumns[k], "no "+elementsColumns[k]+" on a row in the "+form+" form", f.s, "leave it empty", obs.ErrSyntax)
+		}
+	}
+	var v [ecCount]float64
+	for _, k := range need {
+		if !filled(k) {
+			off := len(line)
+			if idx[k] != 0 {
+				off = fields[idx[k]-1].off
+			}
+			return nil, er.perr(line, lineNo, off, elementsColumns[k], "every σ of the row's elements, or none", "",
+				"a row with some σ must give "+elementsColumns[k]+" too", obs.ErrSyntax)
+		}
+		x, err := number(k, "a 1-σ uncertainty ≥ 0", 0, math.MaxFloat64)
+		if err != nil {
+			return nil, err
+		}
+		v[k] = x
+	}
+	return &ElementSigma{A: v[ecSigA], E: v[ecSigE], I: astro.AngleFromDegrees(v[ecSigI]), Node: astro.AngleFromDegrees(v[ecSigNode]),
+		Peri: astro.AngleFromDegrees(v[ecSigPeri]), M: astro.AngleFromDegrees(v[ecSigM]), Q: v[ecSigQ], TpDays: v[ecSigTp]}, nil
 }
 
 // parsePlainDecimal reads a plain decimal number: an optional sign ('+', '-'
