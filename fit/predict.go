@@ -39,6 +39,11 @@ type Prediction struct {
 	// HorizonDays is NaN when unknown.
 	BeyondHorizon bool
 	HorizonDays   float64
+	// Mag is the predicted visual magnitude, NaN when unknown; DeltaAU the
+	// distance from the observer, NaN when the model has none (a sky-plane
+	// fit without a fitted distance).
+	Mag     float64
+	DeltaAU float64
 }
 
 // rateStepDays is the half-step of the central difference for the rate:
@@ -114,7 +119,10 @@ func (s *Solution) Predict(utc astro.JD, site *astro.Site) (Prediction, error) {
 	jinv := inv2(frame.skyToPlane(xi, eta))
 	cs := congruence(jinv, cp)
 	as2 := astro.Arcsecond.Radians() * astro.Arcsecond.Radians()
-	pr := Prediction{UTC: utc, Site: st, Model: s.Model.Name(), HorizonDays: math.NaN()}
+	pr := Prediction{UTC: utc, Site: st, Model: s.Model.Name(), HorizonDays: math.NaN(), Mag: math.NaN(), DeltaAU: math.NaN()}
+	if u := s.InvDistance; u > 0 && !math.IsInf(u, 0) {
+		pr.DeltaAU = 1 / u
+	}
 	for a := 0; a < 2; a++ {
 		for b := 0; b < 2; b++ {
 			pr.CovArcsec2[a][b] = cs[a][b] / as2

@@ -28,6 +28,8 @@ type predictOptions struct {
 	sigma        float64 // --sigma: the ellipse level
 	fovArcmin    float64 // --fov: the field of view, arcmin
 	json, csv    bool
+	elementsFile string          // --elements: a published element set instead of observations
+	name         string          // --name: the element set in --elements
 	changed      map[string]bool // flags given on the command line
 }
 
@@ -40,19 +42,23 @@ func newPredictCommand() *command {
 	return &command{
 		name:    "predict",
 		summary: "position and search region at a time",
-		usage:   "arcfit predict OBS|FIT --at TIME[,TIME…] | --at START --to END --step STEP [--site SITE] [--sigma N] [--json | --csv]",
+		usage:   "arcfit predict OBS|FIT|--elements FILE [--name NAME] --at TIME[,TIME…] | --at START --to END --step STEP [--site SITE] [--sigma N] [--json | --csv]",
 		about: "Gives where the object will be at the times asked for, seen from a site (from the geocentre when no " +
 			"--site is given): the astrometric ICRS right ascension and declination, the search region as an ellipse " +
 			"at --sigma standard deviations (semi-axes in arcseconds, position angle of the major axis north through " +
 			"east), the rate and direction of motion, and at a site the refracted altitude and azimuth. The input is " +
 			"an observation file, which is fitted as fit does (the model chosen by --model), or a fit file saved by " +
-			"fit --save; which one is recognised from the content. It says plainly when a time lies beyond the fit's " +
+			"fit --save; which one is recognised from the content. Instead of either, --elements names a published " +
+			"element set (the orbital-elements CSV, with --name choosing the set when the file holds several): its " +
+			"search region is a point unless the file states 1-σ columns (sigma_a_au, sigma_e, sigma_i_deg, " +
+			"sigma_node_deg, sigma_peri_deg, sigma_m_deg, or sigma_q_au and sigma_tp_days for comets). It says plainly when a time lies beyond the fit's " +
 			"validity horizon and when the search region is wider than the field of view (--fov). A target within 15 " +
 			"degrees of the Sun is answered with a warning on standard error: pointing a telescope near the Sun can " +
 			"blind and destroy equipment. TIME is UTC in ISO 8601 with a zone (2027-02-09T04:00:00Z) or JD and a " +
 			"Julian date; STEP is days (d) and a Go duration (h, m, s): 1d, 2h, 30m, 90s, 1d12h.",
 		example: "arcfit predict observations.csv --sites sites.csv --at 2027-02-09T04:00:00Z --site \"Alder Ridge\"\n" +
-			"arcfit predict demo-fit.json --at 2027-02-09T02:00:00Z --to 2027-02-09T08:00:00Z --step 1h --site 44.52,-72.80,410 --json",
+			"arcfit predict demo-fit.json --at 2027-02-09T02:00:00Z --to 2027-02-09T08:00:00Z --step 1h --site 44.52,-72.80,410 --json\n" +
+			"arcfit predict --elements elements.csv --name \"Demo-1 (invented)\" --at 2027-03-01T03:00:00Z --site 44.52,-72.80,410",
 		flags: func() *pflag.FlagSet { return predictFlags(&predictOptions{}, io.Discard) },
 		run: func(args []string, io streams) error {
 			var o predictOptions
@@ -65,8 +71,17 @@ func newPredictCommand() *command {
 			fs.Visit(func(f *pflag.Flag) { o.changed[f.Name] = true })
 			switch fs.NArg() {
 			case 1:
+				if o.elementsFile != "" {
+					return usagef("give an observation or fit file, or --elements, not both (got %s and --elements %s)", fs.Arg(0), o.elementsFile)
+				}
 				o.file = fs.Arg(0)
 			case 0:
+				if o.elementsFile != "" {
+					break
+				}
+				if o.name != "" {
+					return usagef("--name %q needs --elements FILE", o.name)
+				}
 				return usagef("no observation or fit file given (run \"arcfit predict --help\")")
 			default:
 				return usagef("one file at a time, got %d: %s", fs.NArg(), strings.Join(fs.Args(), " "))
@@ -88,6 +103,8 @@ func predictFlags(o *predictOptions, stderr io.Writer) *pflag.FlagSet {
 	modelFlags(fs, &o.modelOptions)
 	fs.BoolVar(&o.json, "json", false, "print JSON: one object for one time, an object with a rows array for several")
 	fs.BoolVar(&o.csv, "csv", false, "print the predictions as CSV with a header")
+	fs.StringVar(&o.elementsFile, "elements", "", "orbital-elements CSV `file` to predict from, instead of observations")
+	fs.StringVar(&o.name, "name", "", "`name` of the element set in --elements (not needed when it holds one)")
 	return fs
 }
 
@@ -208,6 +225,8 @@ type predictionJSON struct {
 	SunElongationDeg float64     `json:"sun_elongation_deg"`
 	SunAltDeg        *float64    `json:"sun_alt_deg"`
 	RegionFields     *float64    `json:"region_fields"` // major axis / field of view
+	Mag              *float64    `json:"mag"`           // null: unknown
+	DeltaAU          *float64    `json:"delta_au"`      // null: unknown
 }
 
 // predictionRecord turns a prediction into its printed record, with the
@@ -232,6 +251,8 @@ func predictionRecord(p fit.Prediction, sigma, fovArcmin float64) (predictionJSO
 		HorizonDays:      finite(p.HorizonDays),
 		NearSun:          pt.NearSun,
 		SunElongationDeg: pt.SunElongation.Degrees(),
+		Mag:              finite(p.Mag),
+		DeltaAU:          finite(p.DeltaAU),
 	}
 	if p.Site != nil {
 		name := p.Site.Name
@@ -284,66 +305,32 @@ func runPredict(o predictOptions, io streams) error {
 	if err != nil {
 		return err
 	}
-	data, err := readInput(o.file)
+	src, err := predictSource(o, sites)
 	if err != nil {
 		return err
 	}
-	var saved *fit.SavedFit
-	var warnings []string
-	if fit.IsFitFile(data) {
-		for _, f := range fitOnlyFlags {
-			if o.changed[f] {
-				return usagef("--%s acts on fitting; %s is a fit file, fitted already (give the observation file instead)", f, o.file)
-			}
-		}
-		saved, err = fit.ParseFitFile(data, o.file)
-		if err != nil {
-			return inputError(err)
-		}
-		merged := map[string]astro.Site{}
-		for k, v := range saved.Solution.Track.Sites {
-			merged[k] = v
-		}
-		for k, v := range sites {
-			merged[k] = v
-		}
-		_, sites, err = resolveSiteFlag(o.site, merged)
-		if err != nil {
-			return err
-		}
-		warnings = append(warnings, sourceCheck(saved.Solution.Track)...)
-	} else {
-		defaultSite, s, err := resolveSiteFlag(o.site, sites)
-		if err != nil {
-			return err
-		}
-		a, err := analyse(o.modelOptions, data, nil, nil, s, defaultSite)
-		if err != nil {
-			return err
-		}
-		sites, saved, warnings = s, a.saved, a.warnings
-	}
-	site := siteForPrediction(o.site, sites)
+	site := siteForPrediction(o.site, src.sites)
 
 	recs := make([]predictionJSON, 0, len(times))
 	for _, t := range times {
-		p, err := saved.Predict(t, site)
+		p, err := src.predict(t, site)
 		if err != nil {
-			return inputError(fmt.Errorf("%s: %v", o.file, err))
+			return inputError(fmt.Errorf("%s: %v", src.file, err))
 		}
 		r, err := predictionRecord(p, o.sigma, o.fovArcmin)
 		if err != nil {
-			return inputError(fmt.Errorf("%s: %v", o.file, err))
+			return inputError(fmt.Errorf("%s: %v", src.file, err))
 		}
 		recs = append(recs, r)
 	}
+	saved, warnings := src.saved, src.warnings
 
 	var buf bytes.Buffer // whole output first: nothing half-written on error
 	switch {
 	case o.json && len(recs) == 1:
 		err = writeJSON(&buf, recs[0])
 	case o.json:
-		t := predictTableJSON{File: o.file, Model: saved.Solution.Model.Name(), Sigma: o.sigma, FovArcmin: o.fovArcmin, Rows: recs}
+		t := predictTableJSON{File: src.file, Model: src.model, Sigma: o.sigma, FovArcmin: o.fovArcmin, Rows: recs}
 		if site != nil {
 			name := site.Name
 			t.Site = &name
@@ -352,7 +339,7 @@ func runPredict(o predictOptions, io streams) error {
 	case o.csv:
 		err = writePredictCSV(&buf, recs)
 	default:
-		err = writePredictText(&buf, o, saved, site, recs)
+		err = writePredictText(&buf, o, src, site, recs)
 	}
 	if err != nil {
 		return err
@@ -416,7 +403,7 @@ func predictCautions(recs []predictionJSON, saved *fit.SavedFit, o predictOption
 		out = append(out, fmt.Sprintf("CAUTION: at %s the object is %.1f° from the Sun%s. Pointing a telescope, finder or binoculars near the Sun can blind you and destroy equipment; do not point there while the Sun is up.",
 			recs[i].TimeUTC, recs[i].SunElongationDeg, more(n)))
 	}
-	if n, i := count(func(r predictionJSON) bool { return r.BeyondHorizon }); n > 0 {
+	if n, i := count(func(r predictionJSON) bool { return r.BeyondHorizon }); n > 0 && saved != nil {
 		tr := saved.Solution.Track
 		first, last := tr.ArcTT()
 		t, _ := parseInstant("", recs[i].TimeUTC)
@@ -482,11 +469,9 @@ func writePredictCSV(w io.Writer, recs []predictionJSON) error {
 
 // writePredictText writes the predictions for people: one time as a block,
 // several as a table.
-func writePredictText(w io.Writer, o predictOptions, saved *fit.SavedFit, site *astro.Site, recs []predictionJSON) error {
+func writePredictText(w io.Writer, o predictOptions, src *predictInput, site *astro.Site, recs []predictionJSON) error {
 	p := func(format string, a ...any) { fmt.Fprintf(w, format, a...) }
-	sol := saved.Solution
-	first, last := sol.Track.ArcTT()
-	p("%s: model %s, fitted to %d observations over %.2f d\n", o.file, sol.Model, sol.NumUsed, last-first)
+	p("%s\n", src.header)
 	where := "the geocentre (no --site given: no altitude)"
 	if site != nil {
 		where = fmt.Sprintf("%s (%.4f°, %.4f°, %.0f m)", site.Name, site.Lat.Degrees(), site.Lon.Degrees(), site.HeightM)
@@ -499,6 +484,12 @@ func writePredictText(w io.Writer, o predictOptions, saved *fit.SavedFit, site *
 		p("search region   %g-σ ellipse %.1f\" × %.1f\" (semi-axes), major axis at PA %.1f°; %.2f of a %g′ field\n",
 			r.Ellipse.Sigma, r.Ellipse.SemiMajorArcsec, r.Ellipse.SemiMinorArcsec, r.Ellipse.PADeg, ptrVal(r.RegionFields), o.fovArcmin)
 		p("motion          %.3f\"/min toward PA %.1f°\n", r.RateArcsecPerMin, r.RatePADeg)
+		if r.DeltaAU != nil {
+			p("distance        %.4f au from the observer\n", *r.DeltaAU)
+		}
+		if r.Mag != nil {
+			p("magnitude       %.1f (predicted, V)\n", *r.Mag)
+		}
 		if r.AltDeg != nil {
 			below := ""
 			if *r.AltDeg < 0 {
@@ -509,7 +500,9 @@ func writePredictText(w io.Writer, o predictOptions, saved *fit.SavedFit, site *
 		} else {
 			p("Sun             %.1f° away\n", r.SunElongationDeg)
 		}
-		p("validity        %s\n", horizonWords(r))
+		if src.saved != nil {
+			p("validity        %s\n", horizonWords(r))
+		}
 		return nil
 	}
 	p("seen from %s; ellipses at %g σ; field %g′\n", where, o.sigma, o.fovArcmin)

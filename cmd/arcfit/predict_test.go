@@ -11,6 +11,7 @@ import (
 
 	"arcfit/astro"
 	"arcfit/astro/obs"
+	"arcfit/ephem"
 	"arcfit/fit"
 	"arcfit/fit/demo"
 )
@@ -178,5 +179,51 @@ func TestPredictBadInput(t *testing.T) {
 	}
 	if _, err := os.Stat(save); err == nil {
 		t.Errorf("a failed fit left %s", save)
+	}
+}
+
+// predict --elements prints the library's element-set prediction (called
+// here, not hard-coded), with the magnitude and a region from the σ columns.
+func TestPredictElements(t *testing.T) {
+	const file = "../../testdata/elements/good_sigma.csv"
+	code, out, errs := runCmd(t, newPredictCommand(), "--elements", file, "--at", "2027-03-01T03:00:00Z", "--site", "44.52,-72.80,410", "--json")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var got struct {
+		predictRec
+		Mag     *float64 `json:"mag"`
+		DeltaAU *float64 `json:"delta_au"`
+	}
+	if err := json.Unmarshal([]byte(out), &got); err != nil {
+		t.Fatal(err)
+	}
+	sets, _, err := ephem.ReadElementsFile(file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	site := astro.Site{Name: "44.52,-72.80,410", Lat: 44.52 * astro.Degree, Lon: -72.80 * astro.Degree, HeightM: 410}
+	utc, _ := astro.ParseISO8601("2027-03-01T03:00:00Z")
+	want, err := fit.PredictElements(sets[0], utc, &site)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(got.RADeg-want.RA.Degrees()) > 1e-9 || math.Abs(got.DecDeg-want.Dec.Degrees()) > 1e-9 {
+		t.Errorf("printed %.9f %.9f, library %.9f %.9f", got.RADeg, got.DecDeg, want.RA.Degrees(), want.Dec.Degrees())
+	}
+	if got.Model != "elements" || got.Mag == nil || got.DeltaAU == nil || !(got.E["semi_major_arcsec"] > 0) {
+		t.Errorf("model %q mag %v Δ %v ellipse %v", got.Model, got.Mag, got.DeltaAU, got.E)
+	}
+	// Refusals: both an observation file and --elements; a fitting flag; an
+	// unknown name.
+	for _, args := range [][]string{
+		{"x.csv", "--elements", file, "--at", "2027-03-01T03:00:00Z"},
+		{"--elements", file, "--model", "poly2", "--at", "2027-03-01T03:00:00Z"},
+		{"--elements", file, "--name", "Nobody", "--at", "2027-03-01T03:00:00Z"},
+		{"--name", "Invented-Sigma-1", "--at", "2027-03-01T03:00:00Z"},
+	} {
+		if code, _, errs := runCmd(t, newPredictCommand(), args...); code != exitUsage || strings.Count(strings.TrimSpace(errs), "\n") > 0 {
+			t.Errorf("%v: exit %d, stderr %q; want exit %d and one line", args, code, errs, exitUsage)
+		}
 	}
 }
