@@ -185,8 +185,13 @@ func SunApparentEclipticOfDate(tt astro.JD) (lon, lat astro.Angle, rAU float64, 
 // Meeus eq. 22.2) and Δε from [astro.Nutation1980] (Meeus eqs. 13.3, 13.4).
 //
 // Accuracy: against Meeus' example 25.a (α = 13h13m30.749s, δ = −7°47′01.74″)
-// and ERFA's recomputation, within 0.05″ (measured). For the apparent place of
-// the Sun seen from a site, with the IAU 2006 frame, use [PlaceOfBody].
+// and ERFA's recomputation, within 0.05″ (measured). Against the apparent
+// place from JPL DE405 with the IAU 2006/2000A precession-nutation (200
+// instants 1960–2060, ephem/testdata/de405_places.txt) within 0.17″: the
+// difference grows by about 0.25″ per century from J2000, as expected from
+// the IAU 1976 precession used here (IAU 2000 corrected its rate in
+// longitude by −0.30″ per century, from memory). For the apparent place of the Sun seen from a
+// site, with the IAU 2006 frame, use [PlaceOfBody].
 //
 // Reference: Meeus, Astronomical Algorithms, 2nd ed., ch. 25 (example 25.b),
 // ch. 13 and ch. 22.
