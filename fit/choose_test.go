@@ -385,6 +385,13 @@ func TestCompareDemo(t *testing.T) {
 	det := m[0][0]*m[1][1] - m[0][1]*m[1][0]
 	chi2 := (m[1][1]*de*de - 2*m[0][1]*de*dn + m[0][0]*dn*dn) / det
 	t.Logf("truth − prediction at +1 d: %.3f″ east, %.3f″ north, χ² %.2f", de, dn, chi2)
+	for _, r := range c.Rows {
+		if r.Chosen {
+			cv := r.CV
+			t.Logf("model error of %s: normalised mean square %.3f on %.1f effective degrees of freedom, p = %.3g, model error %.3f″",
+				r.Model, cv.NormMS, cv.DoF, cv.PValue, cv.ModelErrorArcsec)
+		}
+	}
 	miss := math.Hypot(de, dn)
 	var cvErr float64
 	for _, r := range c.Rows {

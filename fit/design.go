@@ -13,13 +13,16 @@ import (
 // stays the same through the passes of the outlier rejection: the model's
 // basis values, the Cholesky factor of the point's covariance, the whitened
 // (not yet column-scaled) design rows and right-hand side, and the inverse of
-// the projection's Jacobian. A pass copies the rows of its active points into
-// a reused buffer and factorises that, so the per-point work (the basis, the
-// whitening, the Jacobian of the gnomonic projection) is done once per fit
-// rather than once per pass, and no matrix is allocated per pass.
+// the projection's Jacobian. The per-point work (the basis, the whitening,
+// the Jacobian of the gnomonic projection) is done once per fit rather than
+// once per pass, and the arrays live in a recycled work space, so that no
+// matrix is allocated per pass.
 //
-// The values are computed by exactly the arithmetic of a fresh build, so a
-// pass gives the same numbers, bit for bit, as building its system anew.
+// A pass does not factorise all its rows at once: the rows are compressed
+// night by night into small triangular blocks (see [design.factorNights]),
+// and a pass refactorises only the nights whose active points changed since
+// the last one — one night per flagged outlier, none for a cross-validation
+// fold, which leaves a whole night out.
 type design struct {
 	q     int          // basis functions per coordinate
 	np    int          // columns of the full design: 2q, plus 1 for the u column
@@ -43,6 +46,29 @@ type workspace struct {
 	// chi2 holds each point's normalised χ² under the latest solution (see
 	// pointChi2).
 	chi2 []float64
+	// The arrays of the design that holds the work space (see newDesign).
+	basis, rows, rhs []float64
+	chol             [][3]float64
+	// nights is the night-by-night compression of the design's rows.
+	nights nightBlocks
+}
+
+// nightBlocks holds, for each night of the fitted track, the triangular
+// block of its active rows (see [design.factorNights]) and the active flags
+// it was computed for.
+type nightBlocks struct {
+	owner *design // the design the blocks belong to; nil: none yet
+	cols  int     // columns factorised
+	// of is the night group of each point of the fitted track; the points
+	// of group g are idx[start[g]:start[g+1]].
+	of, idx, start []int
+	state          []bool // each point's active flag when its group was factorised
+	valid          []bool // the group's block matches state
+	// r holds group g's nr[g] rows (cols each) at r[g·cols²:], c their
+	// right-hand side at c[g·cols:], ss the group's column sums of squares
+	// at ss[g·cols:].
+	r, c, ss []float64
+	nr       []int
 }
 
 // workspaces recycles the work space of finished fits (see release), which
@@ -53,6 +79,7 @@ var workspaces = sync.Pool{New: func() any { return new(workspace) }}
 // solved again (solutions do not refer to the work space).
 func (d *design) release() {
 	if d.ws != nil {
+		d.ws.nights.owner = nil
 		workspaces.Put(d.ws)
 		d.ws = nil
 	}
@@ -91,15 +118,22 @@ func newDesign(tr *Track, m Model, s Settings, fitU bool, jinv [][2][2]float64) 
 		np++
 	}
 	n := len(tr.Points)
+	ws := workspaces.Get().(*workspace)
+	ws.nights.owner = nil
+	ws.basis = grow(ws.basis, n*q)
+	ws.chol = grow(ws.chol, n)
+	ws.rows = grow(ws.rows, 2*n*np)
+	clear(ws.rows) // the η columns of ξ rows and the ξ columns of η rows stay 0
+	ws.rhs = grow(ws.rhs, 2*n)
 	d := &design{
 		q:     q,
 		np:    np,
-		basis: make([]float64, n*q),
-		chol:  make([][3]float64, n),
-		rows:  make([]float64, 2*n*np),
-		rhs:   make([]float64, 2*n),
+		basis: ws.basis,
+		chol:  ws.chol,
+		rows:  ws.rows,
+		rhs:   ws.rhs,
 		jinv:  jinv,
-		ws:    workspaces.Get().(*workspace),
+		ws:    ws,
 	}
 	if len(d.jinv) != n {
 		d.jinv = planeJacobians(tr)
@@ -138,19 +172,132 @@ func newDesign(tr *Track, m Model, s Settings, fitU bool, jinv [][2][2]float64) 
 	return d
 }
 
-// system copies the rows of the active points, their first cols columns,
-// into the work space and returns the whitened design (2n × cols, row-major
-// with stride cols) and right-hand side (2n), with each column's sum of
-// squares added into sumSq (accumulated down the rows).
-func (d *design) system(active []bool, n, cols int, sumSq []float64) (a, b []float64) {
-	rows := 2 * n
+// factorNights brings the night blocks of d up to date for the active
+// points of tr, the track being fitted, with the first cols columns, and adds
+// each column's sum of squares over the active rows into sumSq.
+//
+// Each night's active rows (whitened, not column-scaled) are reduced by
+// Householder QR to at most cols rows: R_g and the first cols entries of
+// Q_gᵀb_g (a night with no more rows than columns keeps its rows as they
+// are). Stacking the blocks of all nights and factorising the stack gives the
+// R and Qᵀb of the whole system, so the least-squares solution is that of the
+// full factorisation:
+//
+//	A = [A_1; …; A_K] = diag(Q_1, …, Q_K)·[R_1; …; R_K]
+//
+// (exact algebra: diag(Q_1, …, Q_K) is orthogonal, and the QR factorisation
+// of the stack completes that of A; the least-squares problem is invariant
+// under an orthogonal transformation of its rows, Golub & Van Loan, Matrix
+// Computations, 4th ed. (2013), §5.3.3). A night is factorised again only when the active flags of its
+// points changed; a night with no active point drops out of the stack and
+// keeps its block, so the folds of a leave-one-night-out cross-validation are
+// solved from the blocks of the full fit without refactorising any
+// observation rows.
+//
+// The blocks are factorised without the column scaling: for a diagonal D,
+// the R factor of A·D is R·D, so the scaling is applied to the stacked blocks
+// (see stackSolve); Householder QR is columnwise backward stable, so scaling
+// before it changes nothing beyond rounding (Higham, Accuracy and Stability
+// of Numerical Algorithms, 2nd ed. (2002), Theorem 19.4, §19.4).
+func (d *design) factorNights(tr *Track, active []bool, cols int, sumSq []float64) {
+	nb := &d.ws.nights
+	if nb.owner != d || len(nb.of) != len(active) {
+		d.groupNights(tr)
+	}
+	if nb.cols != cols {
+		nb.cols = cols
+		ng := len(nb.nr)
+		nb.r = grow(nb.r, ng*cols*cols)
+		nb.c = grow(nb.c, ng*cols)
+		nb.ss = grow(nb.ss, ng*cols)
+		clear(nb.valid)
+	}
+	for g := range nb.nr {
+		members := nb.idx[nb.start[g]:nb.start[g+1]]
+		some, same := false, nb.valid[g]
+		for _, i := range members {
+			some = some || active[i]
+			same = same && active[i] == nb.state[i]
+		}
+		if !some {
+			continue // out of the stack; its block is kept
+		}
+		if !same {
+			d.factorNight(g, members, active, cols)
+		}
+		for j, v := range nb.ss[g*cols : (g+1)*cols] {
+			sumSq[j] += v
+		}
+	}
+}
+
+// groupNights sorts the points of tr, the track being fitted, into night
+// groups for factorNights and marks every group's block stale.
+func (d *design) groupNights(tr *Track) {
+	nb := &d.ws.nights
+	nb.owner = d
+	n := len(tr.Points)
+	nb.of = grow(nb.of, n)
+	nb.idx = grow(nb.idx, n)
+	nb.state = grow(nb.state, n)
+	// Night numbers are small (0-based, −1 for a point without one): a
+	// slice maps them to groups, in the order they first appear.
+	lo, hi := 0, 0
+	for _, p := range tr.Points {
+		lo, hi = min(lo, p.Night), max(hi, p.Night)
+	}
+	gi := make([]int, hi-lo+1)
+	for i := range gi {
+		gi[i] = -1
+	}
+	var count []int
+	for i, p := range tr.Points {
+		g := gi[p.Night-lo]
+		if g < 0 {
+			g = len(count)
+			gi[p.Night-lo] = g
+			count = append(count, 0)
+		}
+		nb.of[i] = g
+		count[g]++
+	}
+	ng := len(count)
+	nb.start = grow(nb.start, ng+1)
+	nb.start[0] = 0
+	for g, c := range count {
+		nb.start[g+1] = nb.start[g] + c
+	}
+	fill := append([]int(nil), nb.start[:ng]...)
+	for i, g := range nb.of {
+		nb.idx[fill[g]] = i
+		fill[g]++
+	}
+	nb.nr = grow(nb.nr, ng)
+	nb.valid = grow(nb.valid, ng)
+	clear(nb.valid)
+	nb.cols = 0 // the blocks are sized on first use
+}
+
+// factorNight factorises the active rows of group g (the points members),
+// storing its block, its column sums of squares and the active flags.
+func (d *design) factorNight(g int, members []int, active []bool, cols int) {
+	nb := &d.ws.nights
 	ws := d.ws
+	rows := 0
+	for _, i := range members {
+		if active[i] {
+			rows += 2
+		}
+	}
 	ws.a = grow(ws.a, rows*cols)
 	ws.b = grow(ws.b, rows)
-	a, b = ws.a, ws.b
+	a, b := ws.a, ws.b
+	ss := nb.ss[g*cols : (g+1)*cols]
+	clear(ss)
 	r := 0
-	for i, on := range active {
-		if !on {
+	for _, i := range members {
+		nb.state[i] = active[i]
+		if !active[i] {
 			continue
 		}
 		k := d.src(i)
@@ -159,25 +306,83 @@ func (d *design) system(active []bool, n, cols int, sumSq []float64) (a, b []flo
 			src := d.rows[(2*k+c)*d.np:][:cols]
 			for j, v := range src {
 				dst[j] = v
-				sumSq[j] += v * v
+				ss[j] += v * v
 			}
 		}
 		b[r], b[r+1] = d.rhs[2*k], d.rhs[2*k+1]
 		r += 2
 	}
-	return a, b
+	blk := nb.r[g*cols*cols : (g+1)*cols*cols]
+	rhs := nb.c[g*cols : (g+1)*cols]
+	if rows <= cols {
+		copy(blk, a)
+		copy(rhs, b)
+		nb.nr[g] = rows
+	} else {
+		d.qrFactor(a, b, rows, cols)
+		clear(blk)
+		for i := 0; i < cols; i++ {
+			copy(blk[i*cols+i:(i+1)*cols], a[i*cols+i:(i+1)*cols])
+		}
+		copy(rhs, b[:cols])
+		nb.nr[g] = cols
+	}
+	nb.valid[g] = true
 }
 
-// qrSolve factorises the rows × cols matrix a (row-major, overwritten by its
+// stackSolve stacks the blocks of the nights with active points (as
+// factorNights left them for active), each column divided by its scale,
+// factorises the stack and solves the least-squares problem. It returns the
+// factorised stack a (R in the upper triangle of its first cols rows,
+// row-major with stride cols) and b, whose first cols entries hold the
+// solution of the scaled problem, and false when R has a zero on its
+// diagonal.
+func (d *design) stackSolve(active []bool, cols int, scale []float64) (a, b []float64, ok bool) {
+	nb := &d.ws.nights
+	ws := d.ws
+	in := func(g int) bool {
+		for _, i := range nb.idx[nb.start[g]:nb.start[g+1]] {
+			if active[i] {
+				return true
+			}
+		}
+		return false
+	}
+	total := 0
+	for g, nr := range nb.nr {
+		if in(g) {
+			total += nr
+		}
+	}
+	ws.a = grow(ws.a, total*cols)
+	ws.b = grow(ws.b, total)
+	a, b = ws.a, ws.b
+	r := 0
+	for g, nr := range nb.nr {
+		if !in(g) {
+			continue
+		}
+		blk := nb.r[g*cols*cols:]
+		for i := 0; i < nr; i++ {
+			dst := a[(r+i)*cols : (r+i+1)*cols]
+			for j, v := range blk[i*cols : (i+1)*cols] {
+				dst[j] = v / scale[j]
+			}
+			b[r+i] = nb.c[g*cols+i]
+		}
+		r += nr
+	}
+	return a, b, d.qrSolve(a, b, total, cols)
+}
+
+// qrFactor factorises the rows × cols matrix a (row-major, overwritten by its
 // Householder QR factorisation, R in its upper triangle) and overwrites b
-// with Qᵀb, its first cols entries then with the least-squares solution
-// R⁻¹(Qᵀb)₁..cols. It reports false when R has a zero on its diagonal. The
-// LAPACK calls are those of gonum's mat.QR (Factorize, then SolveTo), made
-// on the work space so that nothing is allocated per pass.
+// with Qᵀb. The LAPACK calls are those of gonum's mat.QR (Factorize, then
+// SolveTo), made on the work space so that nothing is allocated per pass.
 //
 // Reference: Golub & Van Loan, Matrix Computations, 4th ed. (2013), §5.2
 // (Householder QR), §5.3.3 (the QR solution of least squares).
-func (d *design) qrSolve(a, b []float64, rows, cols int) bool {
+func (d *design) qrFactor(a, b []float64, rows, cols int) {
 	ws := d.ws
 	ag := blas64.General{Rows: rows, Cols: cols, Stride: cols, Data: a}
 	ws.tau = grow(ws.tau, cols)
@@ -190,15 +395,22 @@ func (d *design) qrSolve(a, b []float64, rows, cols int) bool {
 	lapack64.Ormqr(blas.Left, blas.Trans, ag, ws.tau, bg, query[:], -1)
 	ws.work = grow(ws.work, int(query[0]))
 	lapack64.Ormqr(blas.Left, blas.Trans, ag, ws.tau, bg, ws.work, len(ws.work))
+}
+
+// qrSolve factorises a and b as [design.qrFactor] does, then overwrites the
+// first cols entries of b with the least-squares solution R⁻¹(Qᵀb)₁..cols;
+// it reports false when R has a zero on its diagonal.
+func (d *design) qrSolve(a, b []float64, rows, cols int) bool {
+	d.qrFactor(a, b, rows, cols)
 	t := blas64.Triangular{N: cols, Stride: cols, Data: a, Uplo: blas.Upper, Diag: blas.NonUnit}
 	return lapack64.Trtrs(blas.NoTrans, t, blas64.General{Rows: cols, Cols: 1, Stride: 1, Data: b[:cols]})
 }
 
 // grow returns buf resliced to length n, reallocated when its capacity is
 // short (the contents are not kept).
-func grow(buf []float64, n int) []float64 {
+func grow[T any](buf []T, n int) []T {
 	if cap(buf) < n {
-		return make([]float64, n)
+		return make([]T, n)
 	}
 	return buf[:n]
 }

@@ -38,6 +38,30 @@
 // the parameter covariance to a 2×2 sky covariance in RA·cos δ and Dec;
 // [Prediction.Ellipse] draws it as an ellipse at a chosen σ level.
 //
+// # Model choice and the model error
+//
+// [Compare] fits the candidate models and scores each by BIC and by
+// leave-one-night-out cross-validation ([CrossValidate]), whose folds are
+// solved from night-by-night blocks of the full fit's QR factorisation; the
+// auto rule takes the simplest model within one standard error of the
+// lowest cross-validated error. Each model's predictions then carry a model
+// error between nights (Solution.ModelErrorArcsec), by the rule
+// Settings.ModelError names ([ModelErrorRule]):
+//
+//   - ModelErrorExcess (the default) adds the excess of the cross-validated
+//     RMS miss over the observations' scatter. It is conservative: the
+//     misses include the folds' own prediction error, which with few nights
+//     is much larger than the full fit's, so right models get search
+//     regions far larger than needed.
+//   - ModelErrorCalibrated tests the cross-validation: the misses of the
+//     nights left out, normalised by the covariance the model claims for
+//     them, must have a mean square near 1. When it is significantly larger
+//     (a χ² test at 1 %, with Satterthwaite's effective degrees of freedom
+//     for misses correlated within and across the folds), the model error
+//     that brings it to 1 is added. A bias that the folds' own uncertainty
+//     hides — as with three nights, where every fold extrapolates a short
+//     arc — is not detected and adds nothing.
+//
 // # Units
 //
 // Angles in radians internally, arcseconds in fields whose names say so;
@@ -69,4 +93,16 @@
 //  7. Press et al. (2007), §11.1 (the Jacobi rotation of a symmetric 2×2
 //     matrix, tan 2θ = 2b/(a − c)), used for the axes and orientation of the
 //     error ellipse.
+//  8. Hastie, T., Tibshirani, R., Friedman, J., The Elements of Statistical
+//     Learning, 2nd ed. (2009), §7.10 (cross-validation and its standard
+//     error); Stone, M., J. R. Stat. Soc. B 36 (1974), 111–147.
+//  9. Isserlis, L., Biometrika 12 (1918), 134–139 (moments of the normal
+//     distribution: the variance of a sum of squares of correlated Gaussian
+//     variables); Satterthwaite, F. E., Biometrics Bulletin 2 (1946),
+//     110–114 (effective degrees of freedom); Press et al. (2007), §6.2 (the
+//     χ² probability function).
+//  10. Higham, N. J., Accuracy and Stability of Numerical Algorithms, 2nd
+//     ed. (2002), Theorem 19.4 (the columnwise backward stability of
+//     Householder QR, which makes the night-by-night factorisation
+//     insensitive to column scaling).
 package fit

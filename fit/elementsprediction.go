@@ -48,7 +48,7 @@ func PredictElements(el ephem.Elements, utc astro.JD, site *astro.Site) (Predict
 		return Prediction{}, fmt.Errorf("fit: %v", err)
 	}
 	pr := Prediction{UTC: utc, Site: st, Model: ElementsModelName, RA: pl.RA, Dec: pl.Dec,
-		HorizonDays: math.NaN(), Mag: pl.Mag, DeltaAU: pl.DeltaAU}
+		HorizonDays: math.NaN(), Mag: pl.Mag, DeltaAU: pl.DeltaAU, Method: "linear"}
 	c := astro.UnitVector(pl.RA, pl.Dec)
 	east, north := localEastNorth(c)
 	offset := func(e ephem.Elements, t astro.JD) (dE, dN float64, err error) {

@@ -23,7 +23,11 @@ import (
 // FitFileSchema is the schema of the fit files this version writes and
 // reads: the value of the file's "schema" key. A file of another schema is
 // refused with ErrFitSchema.
-const FitFileSchema = "arcfit-fit/1"
+const FitFileSchema = "arcfit-fit/2"
+
+// fitFileSchemaV1 is the schema of the first fit files (sky-plane models
+// only, no "orbit" object); this version still reads them.
+const fitFileSchemaV1 = "arcfit-fit/1"
 
 // fitFileSchemaPrefix starts the schema key of every arcfit fit file, of any
 // version.
@@ -63,6 +67,10 @@ type SavedFit struct {
 	Rows []ModelRow
 	// Notes are the comparison's remarks.
 	Notes []string
+	// Orbit is the two-body orbit when it is the chosen model (then
+	// Predict uses it, and Solution is the best sky-plane model, kept for
+	// the track, the sites and the comparison); nil otherwise.
+	Orbit *OrbitFit
 }
 
 // NewSavedFit returns the SavedFit of a comparison: its chosen solution,
@@ -70,7 +78,7 @@ type SavedFit struct {
 func NewSavedFit(c *Comparison) *SavedFit {
 	f := &SavedFit{Solution: c.Solution, Reason: c.Reason, HorizonDays: c.HorizonDays,
 		HorizonBeforeDays: c.HorizonBeforeDays, HorizonAfterDays: c.HorizonAfterDays,
-		HorizonRule: c.HorizonRule, Notes: append([]string{}, c.Notes...)}
+		HorizonRule: c.HorizonRule, Notes: append([]string{}, c.Notes...), Orbit: c.Orbit}
 	for _, r := range c.Rows {
 		f.Rows = append(f.Rows, ModelRow{Model: r.Model, Spec: r.Spec, NumParams: r.NumParams,
 			RMSArcsec: r.RMSArcsec, Chi2DoF: r.Chi2DoF, BIC: r.BIC, CVErrorArcsec: r.CVErrorArcsec,
@@ -85,6 +93,9 @@ func NewSavedFit(c *Comparison) *SavedFit {
 // the arc where utc lies (the smaller one inside the arc), and beyond it when
 // utc lies farther than that from the arc's nearer end.
 func (f *SavedFit) Predict(utc astro.JD, site *astro.Site) (Prediction, error) {
+	if f.Orbit != nil {
+		return f.Orbit.Predict(utc, site)
+	}
 	p, err := f.Solution.Predict(utc, site)
 	if err != nil {
 		return p, err
@@ -221,6 +232,7 @@ type fitFile struct {
 	Models        []rowJSON     `json:"models"`
 	Points        []pointJSON   `json:"points"`
 	Residuals     []residualRec `json:"residuals"`
+	Orbit         *orbitJSON    `json:"orbit,omitempty"`
 }
 
 type sourceJSON struct {
@@ -412,6 +424,14 @@ func MarshalFitFile(f *SavedFit) ([]byte, error) {
 	if s.Settings.Parallax == ParallaxFixed {
 		ff.Settings.InvDistance = optional(s.Settings.InvDistance)
 	}
+	if f.Orbit != nil {
+		o, err := marshalOrbit(f.Orbit)
+		if err != nil {
+			return nil, err
+		}
+		ff.Orbit = o
+		ff.About = "arcfit fit file: a two-body orbit (orbit) and the best sky-plane motion model fitted to the observations in source.file; read by arcfit predict and arcfit night"
+	}
 	if math.IsNaN(s.Chi2) || math.IsInf(s.Chi2, 0) {
 		return nil, errors.New("fit: χ² is not finite")
 	}
@@ -561,7 +581,10 @@ func ParseFitFile(data []byte, name string) (*SavedFit, error) {
 		line, col := r.lineCol(dec.InputOffset())
 		return nil, &obs.ParseError{File: name, Line: line, Column: col, Want: "the end of the file after the fit object", Err: ErrFitFile}
 	}
-	if ff.Schema != FitFileSchema {
+	if ff.Schema == fitFileSchemaV1 && ff.Orbit != nil {
+		return nil, r.fail("orbit", "no orbit in a file of schema "+strconv.Quote(fitFileSchemaV1), "an orbit", ErrFitFile)
+	}
+	if ff.Schema != FitFileSchema && ff.Schema != fitFileSchemaV1 {
 		if strings.HasPrefix(ff.Schema, fitFileSchemaPrefix) {
 			return nil, r.fail("schema", "schema "+strconv.Quote(FitFileSchema)+" (a newer or older arcfit wrote this file)", ff.Schema, ErrFitSchema)
 		}
@@ -948,6 +971,13 @@ func (r *fitFileReader) build(ff *fitFile) (*SavedFit, error) {
 	out := &SavedFit{Solution: sol, Reason: ff.Reason, HorizonDays: valueOr(ff.HorizonDays),
 		HorizonBeforeDays: valueOr(ff.HorizonBefore), HorizonAfterDays: valueOr(ff.HorizonAfter),
 		HorizonRule: ff.HorizonRule, Notes: ff.ModelNotes}
+	if ff.Orbit != nil {
+		of, err := r.buildOrbit(ff.Orbit)
+		if err != nil {
+			return nil, err
+		}
+		out.Orbit = of
+	}
 	for _, row := range ff.Models {
 		out.Rows = append(out.Rows, ModelRow{Model: row.Model, NumParams: row.NumParams, RMSArcsec: valueOr(row.RMSArcsec),
 			Chi2DoF: valueOr(row.Chi2DoF), BIC: valueOr(row.BIC), CVErrorArcsec: valueOr(row.CVErrorArcsec), CVSEArcsec: valueOr(row.CVSEArcsec), CVNormRMS: math.NaN(), Err: row.Err, Chosen: row.Chosen})

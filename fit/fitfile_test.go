@@ -124,7 +124,7 @@ func TestFitFileBad(t *testing.T) {
 		sentinel       error
 	}{
 		{"truncated", s[:len(s)/2], "x.json:", fit.ErrFitFile},
-		{"schema", strings.Replace(s, "arcfit-fit/1", "arcfit-fit/9", 1), "x.json:2:", fit.ErrFitSchema},
+		{"schema", strings.Replace(s, fit.FitFileSchema, "arcfit-fit/9", 1), "x.json:2:", fit.ErrFitSchema},
 		{"garbage", strings.Replace(s, `"params": [`, `"params": [x`, 1), "x.json:", fit.ErrFitFile},
 		{"model", strings.Replace(s, `"name": "`+c.Chosen+`"`, `"name": "poly7"`, 1), "model.name", fit.ErrFitFile},
 		{"unknown field", strings.Replace(s, `"reason":`, `"reasons":`, 1), "reasons", fit.ErrFitFile},

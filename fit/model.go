@@ -18,7 +18,13 @@ const (
 	// KindPiecewise is continuous piecewise-linear motion: straight segments
 	// joined at knots.
 	KindPiecewise
+	// KindKepler is a heliocentric two-body orbit fitted to the observations
+	// ([FitOrbit]); it is not a sky-plane model and [Fit] refuses it.
+	KindKepler
 )
+
+// Kepler returns the two-body orbit model.
+func Kepler() Model { return Model{Kind: KindKepler} }
 
 // Model is a sky-plane motion model: the geocentric standard coordinates
 // ξ(τ), η(τ) as linear combinations of the same basis functions of the scaled
@@ -56,8 +62,11 @@ func Piecewise(knots []float64) Model {
 
 // Name returns "poly1", "poly2", "poly3" or "piecewise".
 func (m Model) Name() string {
-	if m.Kind == KindPiecewise {
+	switch m.Kind {
+	case KindPiecewise:
 		return "piecewise"
+	case KindKepler:
+		return "kepler"
 	}
 	return fmt.Sprintf("poly%d", m.Degree)
 }
@@ -76,11 +85,11 @@ func (m Model) String() string {
 }
 
 // ModelNames are the names [ParseModelName] accepts, "auto" first.
-var ModelNames = []string{"auto", "poly1", "poly2", "poly3", "piecewise"}
+var ModelNames = []string{"auto", "poly1", "poly2", "poly3", "piecewise", "kepler"}
 
 // ParseModelName checks a model name given by a user (case and surrounding
 // blanks ignored) and returns it in canonical form: one of auto, poly1,
-// poly2, poly3, piecewise.
+// poly2, poly3, piecewise, kepler.
 func ParseModelName(s string) (name string, err error) {
 	t := strings.ToLower(strings.TrimSpace(s))
 	for _, n := range ModelNames {
@@ -94,8 +103,11 @@ func ParseModelName(s string) (name string, err error) {
 // NumPerCoord returns the number of basis functions, the parameters per
 // coordinate.
 func (m Model) NumPerCoord() int {
-	if m.Kind == KindPiecewise {
+	switch m.Kind {
+	case KindPiecewise:
 		return 2 + len(m.Knots)
+	case KindKepler:
+		return 3 // the six elements of the state, counted three per coordinate
 	}
 	return m.Degree + 1
 }
@@ -121,6 +133,8 @@ func (m Model) validate() error {
 				return fmt.Errorf("fit: piecewise knots must increase (knot %d at %+.6f d)", i+1, k)
 			}
 		}
+	case KindKepler:
+		return fmt.Errorf("fit: kepler is a two-body orbit, not a sky-plane model (use FitOrbit)")
 	default:
 		return fmt.Errorf("fit: unknown model kind %d", int(m.Kind))
 	}

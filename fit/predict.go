@@ -44,6 +44,12 @@ type Prediction struct {
 	// fit without a fitted distance).
 	Mag     float64
 	DeltaAU float64
+	// Method says how the covariance was obtained: "linear" (propagated
+	// through the model's Jacobian) or "montecarlo" (from sampled orbits,
+	// whose offsets from RA, Dec on the tangent plane, RA·cos δ and Dec in
+	// arcsec, are in Samples).
+	Method  string
+	Samples [][2]float64
 }
 
 // rateStepDays is the half-step of the central difference for the rate:
@@ -119,7 +125,7 @@ func (s *Solution) Predict(utc astro.JD, site *astro.Site) (Prediction, error) {
 	jinv := inv2(frame.skyToPlane(xi, eta))
 	cs := congruence(jinv, cp)
 	as2 := astro.Arcsecond.Radians() * astro.Arcsecond.Radians()
-	pr := Prediction{UTC: utc, Site: st, Model: s.Model.Name(), HorizonDays: math.NaN(), Mag: math.NaN(), DeltaAU: math.NaN()}
+	pr := Prediction{UTC: utc, Site: st, Model: s.Model.Name(), HorizonDays: math.NaN(), Mag: math.NaN(), DeltaAU: math.NaN(), Method: "linear"}
 	if u := s.InvDistance; u > 0 && !math.IsInf(u, 0) {
 		pr.DeltaAU = 1 / u
 	}

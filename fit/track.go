@@ -63,6 +63,9 @@ type Track struct {
 	Source        string   // the observation file's name
 	SourceSHA256  string   // hex SHA-256 of the file's bytes when known, "" otherwise
 	Warnings      []string // time-scale warnings (stale leap-second table, UT before 1972)
+	// Set is the observation set the track was made from (nil for a track
+	// loaded from a fit file): the orbit fit works on it directly.
+	Set *obs.Set
 }
 
 // minArcDays is the shortest time span of the used observations that is not
@@ -130,6 +133,7 @@ func NewTrack(set *obs.Set, sites map[string]astro.Site) (*Track, error) {
 		Plane:  astro.TangentPlane{RA0: ra0.Normalized(), Dec0: dec0},
 		Sites:  known,
 		Source: set.File,
+		Set:    set,
 	}
 	frame := newPlaneFrame(tr.Plane)
 

@@ -60,6 +60,10 @@ type Settings struct {
 	// RejectChi2 is the threshold on a point's 2-dof normalised χ² (see
 	// [Fit]); 0 means DefaultRejectChi2.
 	RejectChi2 float64
+	// ModelError is the rule by which [Compare] derives each model's error
+	// between nights from its cross-validation (Solution.ModelErrorArcsec);
+	// the zero value is ModelErrorExcess. [Fit] does not use it.
+	ModelError ModelErrorRule
 }
 
 // Residual is one observation's O − C.
@@ -114,11 +118,13 @@ type Solution struct {
 	// ModelErrorArcsec is a measured model error between nights, in
 	// arcseconds per coordinate, added in quadrature to the covariance of
 	// every prediction; 0 means none. [Compare] sets it from the
-	// leave-one-night-out cross-validation: when the model missed the nights
-	// it did not see by more than the observations' own scatter, the excess
-	// √(CV² − σ̄²) (σ̄² the mean of the used observations' σ², both
-	// coordinates) is a bias the formal covariance cannot show, and the
-	// search region is widened by it so that it stays honest.
+	// leave-one-night-out cross-validation ([CrossValidate]) by the rule
+	// Settings.ModelError names: by default (ModelErrorExcess) the excess
+	// √(CV² − σ̄²) of the cross-validated RMS miss over the observations'
+	// scatter σ̄ (conservative: it includes the folds' own prediction
+	// error); with ModelErrorCalibrated the s that brings the misses'
+	// normalised mean square to 1 when a χ² test finds it significantly
+	// above 1, and 0 otherwise (see [ModelErrorRule]).
 	ModelErrorArcsec float64
 }
 
@@ -348,9 +354,11 @@ func solve(tr *Track, m Model, s Settings, fitU bool, active []bool, d *design) 
 	if rows < np {
 		return nil, &TooFewError{Model: m.Name(), Need: needFor(m, fitU), Have: distinctTimes(tr, active)}
 	}
-	// Column scaling: each column's sum of squares, accumulated down the rows.
+	// Column scaling: each column's sum of squares over the active rows,
+	// gathered night by night as the rows are compressed (see
+	// design.factorNights).
 	scale := make([]float64, np)
-	a, b := d.system(active, n, np, scale)
+	d.factorNights(tr, active, np, scale)
 	for j, ss := range scale {
 		if ss == 0 {
 			if fitU && j == np-1 {
@@ -360,14 +368,8 @@ func solve(tr *Track, m Model, s Settings, fitU bool, active []bool, d *design) 
 		}
 		scale[j] = math.Sqrt(ss)
 	}
-	for i := 0; i < rows; i++ {
-		row := a[i*np : (i+1)*np]
-		for j := range row {
-			row[j] /= scale[j]
-		}
-	}
-	solved := d.qrSolve(a, b, rows, np)
-	// R, the upper triangle of the factorised design.
+	a, b, solved := d.stackSolve(active, np, scale)
+	// R, the upper triangle of the factorised (column-scaled) design.
 	rr := mat.NewDense(np, np, nil)
 	for i := 0; i < np; i++ {
 		for j := i; j < np; j++ {
