@@ -41,8 +41,12 @@ type ModelRow struct {
 	Err string
 	// Chosen marks the row picked by the auto rule.
 	Chosen bool
-	// Solution is the model's fit of the whole track (nil when Err is set).
+	// Solution is the model's fit of the whole track (nil when Err is set,
+	// and for the kepler row, whose fit is Orbit).
 	Solution *Solution
+	// Orbit is the kepler row's two-body orbit (nil otherwise, or when Err
+	// is set).
+	Orbit *OrbitFit
 }
 
 // Comparison is the result of fitting and comparing the candidate models.
@@ -88,15 +92,19 @@ func CandidateModelsWith(tr *Track, s Settings) []Model {
 			out = append(out, m)
 		}
 	}
-	knots := GapKnots(tr)
-	if len(knots) == 0 {
-		return out
+	if knots := GapKnots(tr); len(knots) > 0 {
+		m, err := selectKnotsModel(tr, knots, s)
+		if err != nil {
+			m = Piecewise(knots)
+		}
+		out = append(out, m)
 	}
-	m, err := selectKnotsModel(tr, knots, s)
-	if err != nil {
-		m = Piecewise(knots)
+	// The two-body orbit needs the observations themselves (a track read
+	// from a fit file has none) and at least three of them.
+	if tr.Set != nil && n >= 3 {
+		out = append(out, Kepler())
 	}
-	return append(out, m)
+	return out
 }
 
 // ErrNoModel reports a comparison in which no model could be fitted.
@@ -148,6 +156,10 @@ func Compare(tr *Track, models []Model, s Settings, at []astro.JD, site *astro.S
 	var firstErr error
 	firstErrParams := math.MaxInt
 	for _, m := range models {
+		if m.Kind == KindKepler {
+			c.Rows = append(c.Rows, keplerRow(tr, s))
+			continue
+		}
 		row := ModelRow{
 			Model: m.Name(), Spec: m, NumParams: m.NumMotionParams(),
 			RMSArcsec: math.NaN(), Chi2DoF: math.NaN(), BIC: math.NaN(),
@@ -188,9 +200,16 @@ func Compare(tr *Track, models []Model, s Settings, at []astro.JD, site *astro.S
 		}
 		return nil, firstErr
 	}
+	c.Solution = c.Rows[best].Solution
+	if k, why := chooseKepler(c, best); k != best {
+		c.Reason = why + "; among the sky-plane models " + c.Reason
+		best = k
+		c.Orbit = c.Rows[k].Orbit
+	} else if why != "" {
+		c.Notes = append(c.Notes, why)
+	}
 	c.Rows[best].Chosen = true
 	c.Chosen = c.Rows[best].Model
-	c.Solution = c.Rows[best].Solution
 
 	h := horizon(c)
 	c.HorizonDays, c.HorizonBeforeDays, c.HorizonAfterDays, c.HorizonRule = h.days, h.before, h.after, h.rule
@@ -212,6 +231,21 @@ func Compare(tr *Track, models []Model, s Settings, at []astro.JD, site *astro.S
 	first, last := tr.ArcTT()
 	for i := range c.Rows {
 		row := &c.Rows[i]
+		if row.Orbit != nil && len(at) > 0 {
+			for _, t := range at {
+				p, err := row.Orbit.Predict(t, site)
+				if err != nil {
+					row.Err = err.Error()
+					row.Preds = nil
+					break
+				}
+				row.Preds = append(row.Preds, p)
+			}
+			if len(row.Preds) > 0 {
+				row.Pred = &row.Preds[0]
+			}
+			continue
+		}
 		if row.Solution == nil || len(at) == 0 {
 			continue
 		}

@@ -29,7 +29,7 @@ func (c *Comparison) Choose(name string) error {
 		return fmt.Errorf("fit: model %s is not among the compared models (%s)", name, strings.Join(names, ", "))
 	}
 	row := c.Rows[idx]
-	if row.Solution == nil {
+	if row.Solution == nil && row.Orbit == nil {
 		msg := row.Err
 		if !strings.HasPrefix(msg, "fit: ") {
 			msg = "fit: " + name + ": " + msg
@@ -44,13 +44,19 @@ func (c *Comparison) Choose(name string) error {
 	for i := range c.Rows {
 		c.Rows[i].Chosen = i == idx
 	}
-	c.Chosen, c.Solution = name, row.Solution
+	c.Chosen, c.Orbit = name, row.Orbit
+	if row.Solution != nil {
+		c.Solution = row.Solution
+	}
 	c.Reason = fmt.Sprintf("%s named by the user; the auto rule would pick %s: %s", name, auto, why)
 	h := horizon(c)
 	c.HorizonDays, c.HorizonBeforeDays, c.HorizonAfterDays, c.HorizonRule = h.days, h.before, h.after, h.rule
 	tr := c.Solution.Track
 	first, last := tr.ArcTT()
 	for i := range c.Rows {
+		if c.Rows[i].Orbit != nil {
+			continue // an orbit has no polynomial horizon
+		}
 		for j := range c.Rows[i].Preds {
 			markHorizon(&c.Rows[i].Preds[j], tr, first, last, h)
 		}

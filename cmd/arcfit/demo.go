@@ -37,7 +37,8 @@ func demoCommand() *command {
 		about: "Writes the built-in demo data into DIR: invented observations of an invented asteroid, \"" +
 			demo.ObjectName + "\", from two invented sites on three nights of February 2027, and the sites file. " +
 			"Then runs on them every step arcfit has built so far: inspect, fit (saving the fit to demo-fit.json), " +
-			"predict for the next two nights from Alder Ridge, and the sky of that night. It overwrites only files " +
+			"predict for the next night and three weeks later from Alder Ridge, and where to point on the night of " +
+			demoNightDate + ". It overwrites only files " +
 			"that are the demo's own.",
 		example: "arcfit demo --dir ./arcfit-demo",
 		flags:   func() *pflag.FlagSet { return demoFlags(&demoOptions{}, io.Discard) },
@@ -95,9 +96,9 @@ func runDemo(o demoOptions, io streams) error {
 	steps := []demoStep{
 		{"inspect", "what was read", []string{"inspect", obsPath, "--sites", sitesPath}},
 		{"fit", "the motion models fitted, compared and saved", []string{"fit", obsPath, "--sites", sitesPath, "--save", fitPath}},
-		{"predict", "where it will be from Alder Ridge, the next night and the night after (the second lies beyond the fit's validity horizon)",
+		{"predict", "where it will be from Alder Ridge, the next night and three weeks later",
 			[]string{"predict", fitPath, "--at", demoPredictTimes, "--site", "Alder Ridge", "--sites", sitesPath}},
-		{"night", "the sky of that night at Alder Ridge", []string{"night", "--date", demoNightDate, "--site", "Alder Ridge", "--sites", sitesPath}},
+		{"night", "where to point three weeks after the arc, from Alder Ridge", []string{"night", fitPath, "--date", demoNightDate, "--site", "Alder Ridge", "--sites", sitesPath}},
 	}
 	cmds := commands()
 	parts := make(map[string]json.RawMessage, len(steps))
@@ -129,7 +130,7 @@ func runDemo(o demoOptions, io streams) error {
 		}
 		fmt.Fprintf(io.Out, "%s\n", b)
 	}
-	fmt.Fprintln(io.Err, "arcfit demo: still to come: night with the target (where to point, with a chart), plan and simulate.")
+	fmt.Fprintln(io.Err, "arcfit demo: still to come: the charts, plan and simulate.")
 	return nil
 }
 
@@ -141,11 +142,11 @@ type demoStep struct {
 
 // The demo's fit file, prediction times and night: the object was last seen
 // on the night of 2027-02-07 at Alder Ridge; the demo asks for the next
-// night and the one after.
+// night and three weeks later, and plans the night of 2027-02-28.
 const (
 	demoFitFile      = "demo-fit.json"
-	demoPredictTimes = "2027-02-09T04:00:00Z,2027-02-10T04:00:00Z"
-	demoNightDate    = "2027-02-08"
+	demoPredictTimes = "2027-02-09T04:00:00Z,2027-03-01T04:00:00Z"
+	demoNightDate    = "2027-02-28"
 )
 
 // checkFitOverwrite refuses to replace an existing file at the demo's fit

@@ -228,7 +228,11 @@ func analyse(o modelOptions, data []byte, at []astro.JD, site *astro.Site, sites
 	}
 	a.cmp = c
 	a.saved = fit.NewSavedFit(c)
-	a.warnings = append(a.warnings, c.Solution.Notes...)
+	if c.Orbit != nil {
+		a.warnings = append(a.warnings, c.Orbit.Warnings...)
+	} else {
+		a.warnings = append(a.warnings, c.Solution.Notes...)
+	}
 	return a, nil
 }
 
@@ -356,6 +360,9 @@ type residualRow struct {
 }
 
 func residualRows(a *analysis) []residualRow {
+	if a.cmp.Orbit != nil {
+		return orbitResidualRows(a)
+	}
 	sol := a.cmp.Solution
 	rows := make([]residualRow, 0, len(sol.Residuals))
 	for i, r := range sol.Residuals {
@@ -402,7 +409,7 @@ func nightRows(a *analysis) []nightRow {
 		if s, ok := a.track.Sites[n.Site]; ok && n.Site != "" {
 			st = &s
 		}
-		if p, err := a.cmp.Solution.Predict(mid, st); err == nil {
+		if p, err := a.saved.Predict(mid, st); err == nil {
 			r.ModelRateArcsecPerMin, r.ModelRatePADeg = finite(round(p.RateArcsecPerMin, 4)), finite(round(p.RatePA.Degrees(), 2))
 		}
 		out = append(out, r)
@@ -464,6 +471,9 @@ type fitJSON struct {
 	Nights            []nightRow          `json:"nights"`
 	Observations      []observationRow    `json:"observations"`
 	Saved             *string             `json:"saved"`
+	Orbit             *orbitJSONOf        `json:"orbit,omitempty"`
+	Elements          *fit.ElementsJSON   `json:"elements,omitempty"`
+	ElementsSigma     *fit.ElementsJSON   `json:"elements_sigma,omitempty"`
 }
 
 func inverseDistance(sol *fit.Solution) inverseDistanceJSON {
@@ -482,6 +492,7 @@ func inverseDistance(sol *fit.Solution) inverseDistanceJSON {
 
 func writeFitJSON(w io.Writer, a *analysis, o fitOptions) error {
 	sol := a.cmp.Solution
+	ch := chosen(a)
 	j := fitJSON{
 		File:              a.set.File,
 		SHA256:            a.track.SourceSHA256,
@@ -489,13 +500,13 @@ func writeFitJSON(w io.Writer, a *analysis, o fitOptions) error {
 		Knots:             append([]float64{}, sol.Model.Knots...),
 		Reason:            a.cmp.Reason,
 		NumObs:            len(a.set.Obs),
-		NumUsed:           sol.NumUsed,
+		NumUsed:           ch.nUsed,
 		NumNights:         a.track.NumNights,
-		RMSArcsec:         finite(sol.RMSArcsec),
-		Chi2DoF:           finite(sol.Chi2DoF),
-		DoF:               sol.DoF,
-		Scaled:            sol.Scaled,
-		Cond:              finite(sol.Cond),
+		RMSArcsec:         finite(ch.rms),
+		Chi2DoF:           finite(ch.chi2DoF),
+		DoF:               ch.dof,
+		Scaled:            ch.scaled,
+		Cond:              finite(ch.cond),
 		InverseDistance:   inverseDistance(sol),
 		HorizonDays:       finite(a.cmp.HorizonDays),
 		HorizonBeforeDays: finite(a.cmp.HorizonBeforeDays),
@@ -504,7 +515,7 @@ func writeFitJSON(w io.Writer, a *analysis, o fitOptions) error {
 		EpochTT:           astro.FormatISO8601(a.track.EpochTT, 0),
 		PlaneRADeg:        a.track.Plane.RA0.Degrees(),
 		PlaneDecDeg:       a.track.Plane.Dec0.Degrees(),
-		Notes:             append(append([]string{}, sol.Notes...), a.cmp.Notes...),
+		Notes:             ch.notes,
 		Warnings:          append([]string{}, a.warnings...),
 		Residuals:         residualRows(a),
 		Nights:            nightRows(a),
@@ -515,10 +526,21 @@ func writeFitJSON(w io.Writer, a *analysis, o fitOptions) error {
 	}
 	flagged := map[int]bool{}
 	for _, r := range sol.Residuals {
-		if r.Flagged {
+		if r.Flagged && a.cmp.Orbit == nil {
 			j.NumFlagged++
 			flagged[r.ObsIndex] = true
 		}
+	}
+	if of := a.cmp.Orbit; of != nil {
+		for _, r := range of.Solution.Residuals {
+			if r.Flagged {
+				j.NumFlagged++
+				flagged[r.Index] = true
+			}
+		}
+		or := orbitRecord(of)
+		j.Orbit, j.Elements, j.ElementsSigma = &or, &or.Elements, &or.ElementsSigma
+		j.Knots = []float64{}
 	}
 	for i := range j.Observations {
 		if flagged[i] {
@@ -578,41 +600,53 @@ func fmtNum(v float64, d int) string {
 func writeFitText(w io.Writer, a *analysis, o fitOptions) error {
 	p := func(format string, args ...any) { fmt.Fprintf(w, format, args...) }
 	sol := a.cmp.Solution
+	ch := chosen(a)
 	tr := a.track
 	first, last := tr.ArcTT()
 	nFlagged := 0
-	for _, r := range sol.Residuals {
+	for _, r := range residualRows(a) {
 		if r.Flagged {
 			nFlagged++
 		}
 	}
 	p("%s: %d observation%s, %d used in the fit, %d flagged; %d night%s over %.2f d\n",
-		a.set.File, len(a.set.Obs), plural(len(a.set.Obs)), sol.NumUsed, nFlagged, tr.NumNights, plural(tr.NumNights), last-first)
-	p("chosen model: %s\n  %s\n", sol.Model, wrapIndent(a.cmp.Reason, 76, "  "))
+		a.set.File, len(a.set.Obs), plural(len(a.set.Obs)), ch.nUsed, nFlagged, tr.NumNights, plural(tr.NumNights), last-first)
+	chosenName := sol.Model.String()
+	if a.cmp.Orbit != nil {
+		chosenName = "kepler (a two-body orbit about the Sun)"
+	}
+	p("chosen model: %s\n  %s\n", chosenName, wrapIndent(a.cmp.Reason, 76, "  "))
 	p("fit: rms %.3f\" per coordinate (RA·cos δ and Dec pooled), χ²/dof %s on %d degrees of freedom, condition number %.3g\n",
-		sol.RMSArcsec, fmtNum(sol.Chi2DoF, 2), sol.DoF, sol.Cond)
-	if sol.Scaled {
-		p("  the residuals are larger than the stated σ allow: covariance scaled by χ²/dof = %.2f (σ × %.2f)\n", sol.Chi2DoF, math.Sqrt(sol.Chi2DoF))
+		ch.rms, fmtNum(ch.chi2DoF, 2), ch.dof, ch.cond)
+	if ch.scaled {
+		p("  the residuals are larger than the stated σ allow: covariance scaled by χ²/dof = %.2f (σ × %.2f)\n", ch.chi2DoF, math.Sqrt(ch.chi2DoF))
 	}
-	switch d := inverseDistance(sol); {
-	case d.Mode == "off":
-		p("parallax: not modelled — the positions are fitted as if geocentric\n")
-	case d.Mode == "fixed":
-		p("parallax: distance fixed at %.4g au (inverse distance %.4g au⁻¹)\n", 1/sol.InvDistance, sol.InvDistance)
-	default:
-		u, su := sol.InvDistance, sol.InvDistanceSigma
-		dist := "-"
-		if u > 0 {
-			dist = fmt.Sprintf("%.3g au", 1/u)
-			if su < u {
-				dist += fmt.Sprintf(" (1σ range %.3g–%.3g au)", 1/(u+su), 1/(u-su))
-			} else {
-				dist += " (poorly determined: the 1σ range reaches to infinity)"
+	if of := a.cmp.Orbit; of != nil {
+		writeOrbitText(w, of)
+		p("\n")
+	} else {
+		switch d := inverseDistance(sol); {
+		case d.Mode == "off":
+			p("parallax: not modelled — the positions are fitted as if geocentric\n")
+		case d.Mode == "fixed":
+			p("parallax: distance fixed at %.4g au (inverse distance %.4g au⁻¹)\n", 1/sol.InvDistance, sol.InvDistance)
+		default:
+			u, su := sol.InvDistance, sol.InvDistanceSigma
+			dist := "-"
+			if u > 0 {
+				dist = fmt.Sprintf("%.3g au", 1/u)
+				if su < u {
+					dist += fmt.Sprintf(" (1σ range %.3g–%.3g au)", 1/(u+su), 1/(u-su))
+				} else {
+					dist += " (poorly determined: the 1σ range reaches to infinity)"
+				}
 			}
+			p("parallax: inverse distance fitted, u = %.4g ± %.2g au⁻¹, distance %s\n", u, su, dist)
 		}
-		p("parallax: inverse distance fitted, u = %.4g ± %.2g au⁻¹, distance %s\n", u, su, dist)
 	}
-	if !math.IsNaN(a.cmp.HorizonDays) {
+	if a.cmp.Orbit != nil {
+		p("validity: a two-body orbit has no polynomial horizon; its search region grows with the distance from the arc\n")
+	} else if !math.IsNaN(a.cmp.HorizonDays) {
 		p("validity horizon: %.3g d before the first and %.3g d after the last observation\n  %s\n",
 			a.cmp.HorizonBeforeDays, a.cmp.HorizonAfterDays, wrapIndent(a.cmp.HorizonRule, 76, "  "))
 	} else {
@@ -673,7 +707,11 @@ func writeFitText(w io.Writer, a *analysis, o fitOptions) error {
 		p("  * = chosen\n")
 	}
 
-	p("\nresiduals, observed − computed (arcsec)\n")
+	against := sol.Model.String()
+	if a.cmp.Orbit != nil {
+		against = "the orbit"
+	}
+	p("\nresiduals, observed − computed against %s (arcsec)\n", against)
 	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "  line\ttime_utc\tsite\tRA·cosδ\tDec\tχ²\t")
 	for _, r := range residualRows(a) {
@@ -714,7 +752,7 @@ func writeFitText(w io.Writer, a *analysis, o fitOptions) error {
 	if err := tw.Flush(); err != nil {
 		return err
 	}
-	notes := append(append([]string{}, sol.Notes...), a.cmp.Notes...)
+	notes := ch.notes
 	if len(notes) > 0 {
 		p("\nnotes\n")
 		for _, n := range notes {

@@ -103,12 +103,24 @@ func TestFitDemoText(t *testing.T) {
 	if code != exitOK {
 		t.Fatalf("exit %d, stderr %s", code, errs)
 	}
-	for _, want := range []string{"chosen model:", "models compared", "residuals, observed − computed", "flagged observations", "motion on each night", "condition number", "parallax:"} {
+	for _, want := range []string{"chosen model: kepler", "models compared", "residuals, observed − computed", "flagged observations",
+		"motion on each night", "condition number", "orbit: osculating heliocentric elements", "class: main belt", "H = "} {
 		if !strings.Contains(out, want) {
 			t.Errorf("fit text lacks %q:\n%s", want, out)
 		}
 	}
 	t.Log("\n" + out)
+	// A sky-plane model named by the user prints its parallax term and
+	// horizon instead.
+	code, out, errs = runCmd(t, newFitCommand(), obsPath, "--sites", sitesPath, "--model", "poly2")
+	if code != exitOK {
+		t.Fatalf("exit %d, stderr %s", code, errs)
+	}
+	for _, want := range []string{"chosen model: poly2", "parallax:", "validity horizon:"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("fit --model poly2 text lacks %q:\n%s", want, out)
+		}
+	}
 }
 
 func asUsage(err error, ue **usageError) bool { return errors.As(err, ue) }

@@ -503,12 +503,12 @@ func TestNightTargetNextNights(t *testing.T) {
 func TestNightTargetFitFile(t *testing.T) {
 	obsPath, sitesPath := demoFiles(t)
 	save := filepath.Join(t.TempDir(), "fit.json")
-	if code, _, errs := runCmd(t, newFitCommand(), obsPath, "--sites", sitesPath, "--save", save); code != exitOK {
+	if code, _, errs := runCmd(t, newFitCommand(), obsPath, "--sites", sitesPath, "--model", "poly2", "--save", save); code != exitOK {
 		t.Fatalf("fit: %s", errs)
 	}
 	args := []string{"--date", "2027-02-12", "--site", "Alder Ridge", "--sites", sitesPath, "--next-nights", "0"}
 	a, errA := nightJSONOf(t, append([]string{save}, args...)...)
-	b, _ := nightJSONOf(t, append([]string{obsPath}, args...)...)
+	b, _ := nightJSONOf(t, append([]string{obsPath, "--model", "poly2"}, args...)...)
 	if a["observable"] != true || a["best_time_utc"] != b["best_time_utc"] || a["window_start_utc"] != b["window_start_utc"] {
 		t.Errorf("fit file: observable %v best %v window %v; observations: best %v window %v",
 			a["observable"], a["best_time_utc"], a["window_start_utc"], b["best_time_utc"], b["window_start_utc"])

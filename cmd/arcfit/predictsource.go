@@ -108,5 +108,9 @@ func predictSource(o predictOptions, sites map[string]astro.Site) (*predictInput
 	first, last := sol.Track.ArcTT()
 	in.model = sol.Model.Name()
 	in.header = fmt.Sprintf("%s: model %s, fitted to %d observations over %.2f d", o.file, sol.Model, sol.NumUsed, last-first)
+	if of := in.saved.Orbit; of != nil {
+		in.model = fit.Kepler().Name()
+		in.header = fmt.Sprintf("%s: model kepler, a two-body orbit (%s) fitted to %d observations over %.2f d", o.file, of.Class, of.Solution.NumUsed, last-first)
+	}
 	return in, nil
 }

@@ -1,0 +1,226 @@
+package fit
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"arcfit/astro"
+	"arcfit/fit/orbit"
+)
+
+// keplerRow fits the two-body orbit for the comparison and cross-validates
+// it night by night, in the same terms as the sky-plane rows.
+func keplerRow(tr *Track, s Settings) ModelRow {
+	m := Kepler()
+	row := ModelRow{Model: m.Name(), Spec: m, NumParams: 6, RMSArcsec: math.NaN(), Chi2DoF: math.NaN(), BIC: math.NaN(),
+		CVErrorArcsec: math.NaN(), CVSEArcsec: math.NaN(), CVNormRMS: math.NaN()}
+	of, err := FitOrbit(tr, s)
+	if err != nil {
+		row.Err = err.Error()
+		return row
+	}
+	sol := of.Solution
+	row.Orbit = of
+	row.RMSArcsec = sol.RMSArcsec
+	row.Chi2DoF = sol.Chi2DoF
+	if n := 2 * sol.NumUsed; n > 0 {
+		row.BIC = sol.Chi2 + 6*math.Log(float64(n))
+	}
+	row.CV = keplerCrossValidate(tr, of, s)
+	row.CVErrorArcsec, row.CVSEArcsec, row.CVNormRMS = row.CV.RMSArcsec, row.CV.SEArcsec, row.CV.NormRMS
+	return row
+}
+
+// keplerCrossValidate leaves out each night in turn, determines the orbit
+// from the others ([orbit.Determine], as for the whole track) and predicts
+// the observations of the night left out: the misses and their normalised
+// χ² against the observation's covariance plus the fold's linear prediction
+// covariance, pooled as [CrossValidate] pools them (RMS of the misses, its
+// standard error from the spread of the folds' mean squares, the normalised
+// RMS). With fewer than [MinCVNights] nights it is not available (NaN).
+func keplerCrossValidate(tr *Track, of *OrbitFit, s Settings) CrossValidation {
+	cv := CrossValidation{RMSArcsec: math.NaN(), SEArcsec: math.NaN(), NormRMS: math.NaN(), ObsScale: math.NaN(),
+		NormMS: math.NaN(), DoF: math.NaN(), PValue: math.NaN(), ModelErrorArcsec: math.NaN()}
+	night := map[int]int{}
+	var nights []int
+	seen := map[int]bool{}
+	for _, p := range tr.Points {
+		if p.Used {
+			night[p.ObsIndex] = p.Night
+			if !seen[p.Night] {
+				seen[p.Night] = true
+				nights = append(nights, p.Night)
+			}
+		}
+	}
+	sort.Ints(nights)
+	if len(nights) < MinCVNights || of.Obs == nil {
+		return cv
+	}
+	flagged := map[int]bool{}
+	for _, r := range of.Solution.Residuals {
+		if r.Flagged {
+			flagged[r.Index] = true
+		}
+	}
+	as := astro.Arcsecond.Radians()
+	var sumSq, sumChi2 float64
+	var n int
+	var foldMS []float64
+	for _, k := range nights {
+		obs := make([]orbit.Observation, len(of.Obs))
+		copy(obs, of.Obs)
+		var left []int
+		for i := range obs {
+			nk, ok := night[obs[i].Index]
+			if !ok || !obs[i].Used || flagged[obs[i].Index] {
+				obs[i].Used = false
+				continue
+			}
+			if nk == k {
+				obs[i].Used = false
+				left = append(left, i)
+			}
+		}
+		fold, err := orbit.Determine(obs, orbit.Options{KeepAll: true})
+		if err != nil {
+			cv.Failed = append(cv.Failed, k)
+			cv.Notes = append(cv.Notes, fmt.Sprintf("night %d: the orbit of the other nights could not be determined: %v", k+1, err))
+			continue
+		}
+		var foldSq float64
+		var foldN int
+		for _, i := range left {
+			o := of.Obs[i]
+			var site *astro.Site
+			if o.Site != "" {
+				st := tr.Sites[o.Site]
+				site = &st
+			}
+			p, err := fold.Predict(o.Geo.UTC, site)
+			if err != nil {
+				continue
+			}
+			dE, dN := orbit.Residual(o.RA, o.Dec, astro.UnitVector(p.RA, p.Dec))
+			dE, dN = dE/as, dN/as
+			cObs := [2][2]float64{{sq(o.SigmaRA / as), o.Corr * o.SigmaRA * o.SigmaDec / (as * as)}, {0, sq(o.SigmaDec / as)}}
+			cObs[1][0] = cObs[0][1]
+			c := [2][2]float64{{cObs[0][0] + p.CovArcsec2[0][0], cObs[0][1] + p.CovArcsec2[0][1]},
+				{cObs[1][0] + p.CovArcsec2[1][0], cObs[1][1] + p.CovArcsec2[1][1]}}
+			det := c[0][0]*c[1][1] - c[0][1]*c[1][0]
+			chi2 := (c[1][1]*dE*dE - 2*c[0][1]*dE*dN + c[0][0]*dN*dN) / det
+			cv.Misses = append(cv.Misses, CVMiss{ObsIndex: o.Index, Night: k, DRAArcsec: dE, DDecArcsec: dN, Chi2: chi2,
+				ObsCovArcsec2: cObs, PredCovArcsec2: p.CovArcsec2})
+			sumSq += dE*dE + dN*dN
+			sumChi2 += chi2
+			foldSq += dE*dE + dN*dN
+			foldN++
+			n++
+		}
+		if foldN > 0 {
+			cv.Folds++
+			foldMS = append(foldMS, foldSq/(2*float64(foldN)))
+		}
+	}
+	if n == 0 {
+		return cv
+	}
+	ms := sumSq / (2 * float64(n))
+	cv.RMSArcsec = math.Sqrt(ms)
+	cv.NormRMS = math.Sqrt(sumChi2 / (2 * float64(n)))
+	if len(foldMS) >= 2 {
+		var m, v float64
+		for _, x := range foldMS {
+			m += x
+		}
+		m /= float64(len(foldMS))
+		for _, x := range foldMS {
+			v += (x - m) * (x - m)
+		}
+		v /= float64(len(foldMS) - 1)
+		// The standard error of the mean square, carried to the RMS:
+		// se(√ms) ≈ se(ms)/(2√ms).
+		cv.SEArcsec = math.Sqrt(v/float64(len(foldMS))) / (2 * cv.RMSArcsec)
+	}
+	return cv
+}
+
+func sq(x float64) float64 { return x * x }
+
+// zeroNaN returns x, or 0 when x is NaN.
+func zeroNaN(x float64) float64 {
+	if math.IsNaN(x) {
+		return 0
+	}
+	return x
+}
+
+// chooseKepler decides whether the orbit row replaces the sky-plane model
+// the auto rule picked (index sky): the orbit is used whenever it was
+// determined and fits the data — its χ²/dof no worse than the chosen
+// sky-plane model's beyond the χ² noise, r·(1 + 3√(2/dof)) with
+// r = max(1, χ²/dof of that model) — and, when both were cross-validated,
+// its cross-validated error is within one standard error of the sky-plane
+// model's (the two standard errors combined in quadrature: the folds of
+// an orbit fitted to fewer nights scatter more). The reason goes to Comparison.Reason.
+//
+// Why prefer it: a two-body orbit is the physical model, so it extrapolates
+// beyond the arc where a polynomial in time does not (see [Horizon]).
+func chooseKepler(c *Comparison, sky int) (int, string) {
+	k := -1
+	for i, r := range c.Rows {
+		if r.Spec.Kind == KindKepler {
+			k = i
+		}
+	}
+	if k < 0 {
+		return sky, ""
+	}
+	kr := c.Rows[k]
+	if kr.Orbit == nil {
+		return sky, "kepler not used: " + oneLineReason(kr.Err)
+	}
+	sol := kr.Orbit.Solution
+	if sky < 0 {
+		return sky, ""
+	}
+	sr := c.Rows[sky]
+	r := math.Max(1, sr.Chi2DoF)
+	limit := r
+	if sol.DoF > 0 {
+		limit = r * (1 + 3*math.Sqrt(2/float64(sol.DoF)))
+	}
+	if !(sol.Chi2DoF <= limit) {
+		return sky, fmt.Sprintf("kepler not used: its χ²/dof %.2f exceeds %.2f (the %s fit's, within its χ² noise)", sol.Chi2DoF, limit, sr.Model)
+	}
+	if !math.IsNaN(kr.CVErrorArcsec) && !math.IsNaN(sr.CVErrorArcsec) {
+		se := math.Hypot(zeroNaN(sr.CVSEArcsec), zeroNaN(kr.CVSEArcsec))
+		if kr.CVErrorArcsec > sr.CVErrorArcsec+se {
+			return sky, fmt.Sprintf("kepler not used: its cross-validated error %.3g″ exceeds %s's %.3g″ by more than their combined standard error %.2g″", kr.CVErrorArcsec, sr.Model, sr.CVErrorArcsec, se)
+		}
+	}
+	return k, fmt.Sprintf("kepler: the two-body orbit fits the data (χ²/dof %.2f, within the %s fit's %.2f and its χ² noise) and, unlike a polynomial in time, extrapolates beyond the arc; started from %s",
+		sol.Chi2DoF, sr.Model, sr.Chi2DoF, startName(sol.Start))
+}
+
+// startName names the start method for people.
+func startName(m string) string {
+	switch m {
+	case orbit.MethodGauss:
+		return "Gauss's method"
+	case orbit.MethodRanging:
+		return "the search over distance (ranging)"
+	}
+	return m
+}
+
+// oneLineReason shortens an error text to its first line.
+func oneLineReason(s string) string {
+	for i, c := range s {
+		if c == '\n' {
+			return s[:i]
+		}
+	}
+	return s
+}
