@@ -1,6 +1,7 @@
 package fit_test
 
 import (
+	"encoding/json"
 	"errors"
 	"math"
 	"os"
@@ -67,8 +68,12 @@ func TestFitFileRoundTrip(t *testing.T) {
 			}
 		}
 	}
-	if f.Solution.Model.Name() != c.Chosen || f.Solution.Track.SourceSHA256 != c.Solution.Track.SourceSHA256 {
-		t.Errorf("model %s / sha %q, want %s / %q", f.Solution.Model.Name(), f.Solution.Track.SourceSHA256, c.Chosen, c.Solution.Track.SourceSHA256)
+	name := f.Solution.Model.Name()
+	if f.Orbit != nil {
+		name = fit.Kepler().Name()
+	}
+	if name != c.Chosen || f.Solution.Track.SourceSHA256 != c.Solution.Track.SourceSHA256 {
+		t.Errorf("model %s / sha %q, want %s / %q", name, f.Solution.Track.SourceSHA256, c.Chosen, c.Solution.Track.SourceSHA256)
 	}
 }
 
@@ -126,7 +131,8 @@ func TestFitFileBad(t *testing.T) {
 		{"truncated", s[:len(s)/2], "x.json:", fit.ErrFitFile},
 		{"schema", strings.Replace(s, fit.FitFileSchema, "arcfit-fit/9", 1), "x.json:2:", fit.ErrFitSchema},
 		{"garbage", strings.Replace(s, `"params": [`, `"params": [x`, 1), "x.json:", fit.ErrFitFile},
-		{"model", strings.Replace(s, `"name": "`+c.Chosen+`"`, `"name": "poly7"`, 1), "model.name", fit.ErrFitFile},
+		{"model", strings.Replace(s, `"name": "`+c.Solution.Model.Name()+`"`, `"name": "poly7"`, 1), "model.name", fit.ErrFitFile},
+		{"orbit", orbitAtSun(t, good), "orbit.position_au", fit.ErrFitFile},
 		{"unknown field", strings.Replace(s, `"reason":`, `"reasons":`, 1), "reasons", fit.ErrFitFile},
 	} {
 		_, err := fit.ParseFitFile([]byte(tc.in), "x.json")
@@ -169,4 +175,23 @@ func FuzzLoadFit(f *testing.F) {
 			t.Errorf("re-saved file does not load: %v", err)
 		}
 	})
+}
+
+// orbitAtSun returns the fit file with its orbit's position put at the Sun.
+func orbitAtSun(t *testing.T, good []byte) string {
+	t.Helper()
+	var v map[string]any
+	if err := json.Unmarshal(good, &v); err != nil {
+		t.Fatal(err)
+	}
+	o, ok := v["orbit"].(map[string]any)
+	if !ok {
+		t.Fatal("the demo fit file holds no orbit")
+	}
+	o["position_au"] = []float64{0, 0, 0}
+	b, err := json.MarshalIndent(v, "", "  ")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return string(b)
 }
