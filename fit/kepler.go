@@ -32,6 +32,10 @@ type OrbitFit struct {
 	MonteCarlo orbit.MonteCarloSettings
 	// NoSampling turns the Monte Carlo regions off (linear propagation only).
 	NoSampling bool
+
+	// samples caches the sampled orbits by method (they do not depend on
+	// the prediction time).
+	samples map[string]*orbit.OrbitSamples
 }
 
 // FitOrbit determines the two-body orbit of the track's observations
@@ -67,10 +71,21 @@ func newOrbitFit(sol *orbit.Solution, obs []orbit.Observation, warns []string) (
 }
 
 // Predict returns the orbit's place at the UTC instant utc seen from site
-// (nil: the geocentre) as a [Prediction] with model "kepler": the linear
-// propagation of the orbit's covariance ([orbit.Solution.Predict]), with
-// the magnitude from the fitted H when the observations had magnitudes.
-// Prediction.Method says "linear".
+// (nil: the geocentre) as a [Prediction] with model "kepler", with the
+// magnitude from the fitted H when the observations had magnitudes.
+//
+// The search region: the linear propagation of the orbit's covariance
+// ([orbit.Solution.Predict]) unless the sampling rule of
+// [orbit.ChooseSampling] says the orbit is too weakly determined for it
+// (fewer than its minimum of nights: orbits sampled by ranging; a
+// prediction far beyond the arc: orbits sampled from the covariance, used
+// when their region differs from the linear one, [orbit.CompareLinear]).
+// Then the region is the sampled orbits' (their
+// weighted mean place and covariance, propagated non-linearly), Method
+// "montecarlo" and Samples the offsets of the sampled places. An orbit read
+// from a fit file has no observations, so it samples from its covariance
+// and keeps the linear region when the two agree. A sampling that fails
+// leaves the linear region.
 func (f *OrbitFit) Predict(utc astro.JD, site *astro.Site) (Prediction, error) {
 	if utc.Scale != astro.UTC {
 		return Prediction{}, fmt.Errorf("fit: prediction time must be UTC, got %v", utc.Scale)
@@ -84,7 +99,66 @@ func (f *OrbitFit) Predict(utc astro.JD, site *astro.Site) (Prediction, error) {
 	if err != nil {
 		return Prediction{}, err
 	}
-	return predictionOfSky(sp, st), nil
+	lin := predictionOfSky(sp, st)
+	if f.NoSampling {
+		return lin, nil
+	}
+	method := orbit.SamplingCovariance
+	if f.Obs != nil {
+		method = orbit.ChooseSampling(f.Obs, utc, true).Method
+	}
+	if method == orbit.SamplingLinear {
+		return lin, nil
+	}
+	g, err := ephem.ObserverGeometryAt(utc, st, 0)
+	if err != nil && !errors.Is(err, astro.ErrStaleTable) && !errors.Is(err, astro.ErrUTCBefore1972) {
+		return lin, nil
+	}
+	set, err := f.sampled(method)
+	if err != nil {
+		return lin, nil
+	}
+	r, err := set.Predict(g, f.MonteCarlo)
+	if err != nil {
+		return lin, nil
+	}
+	if method == orbit.SamplingCovariance {
+		if differ, _ := orbit.CompareLinear(sp.RA, sp.Dec, sp.CovArcsec2, r); !differ {
+			return lin, nil // the linear answer holds
+		}
+	}
+	p := lin
+	p.RA, p.Dec, p.CovArcsec2, p.Method = r.RA, r.Dec, r.CovArcsec2, "montecarlo"
+	if r.DeltaAU > 0 {
+		p.DeltaAU = r.DeltaAU
+	}
+	p.Samples, _ = r.Offsets()
+	return p, nil
+}
+
+// sampled returns the orbits sampled by method, drawing them once.
+func (f *OrbitFit) sampled(method string) (*orbit.OrbitSamples, error) {
+	if method == orbit.SamplingLinear {
+		method = orbit.SamplingCovariance
+	}
+	if s, ok := f.samples[method]; ok {
+		return s, nil
+	}
+	var s *orbit.OrbitSamples
+	var err error
+	if method == orbit.SamplingRanging && f.Obs != nil {
+		s, err = orbit.RangingOrbits(f.Obs, f.MonteCarlo)
+	} else {
+		s, err = orbit.CovarianceOrbits(f.Solution.State, f.Solution.Cov, f.MonteCarlo)
+	}
+	if err != nil {
+		return nil, err
+	}
+	if f.samples == nil {
+		f.samples = map[string]*orbit.OrbitSamples{}
+	}
+	f.samples[method] = s
+	return s, nil
 }
 
 // predictionOfSky turns an orbit prediction into a Prediction.

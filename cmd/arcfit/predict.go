@@ -28,6 +28,7 @@ type predictOptions struct {
 	sigma        float64 // --sigma: the ellipse level
 	fovArcmin    float64 // --fov: the field of view, arcmin
 	json, csv    bool
+	samples      bool            // --samples: the Monte Carlo samples in the JSON
 	elementsFile string          // --elements: a published element set instead of observations
 	name         string          // --name: the element set in --elements
 	changed      map[string]bool // flags given on the command line
@@ -103,6 +104,7 @@ func predictFlags(o *predictOptions, stderr io.Writer) *pflag.FlagSet {
 	modelFlags(fs, &o.modelOptions)
 	fs.BoolVar(&o.json, "json", false, "print JSON: one object for one time, an object with a rows array for several")
 	fs.BoolVar(&o.csv, "csv", false, "print the predictions as CSV with a header")
+	fs.BoolVar(&o.samples, "samples", false, "with --json, list the sampled orbits' places when the region comes from Monte Carlo sampling")
 	fs.StringVar(&o.elementsFile, "elements", "", "orbital-elements CSV `file` to predict from, instead of observations")
 	fs.StringVar(&o.name, "name", "", "`name` of the element set in --elements (not needed when it holds one)")
 	return fs
@@ -227,6 +229,11 @@ type predictionJSON struct {
 	RegionFields     *float64    `json:"region_fields"` // major axis / field of view
 	Mag              *float64    `json:"mag"`           // null: unknown
 	DeltaAU          *float64    `json:"delta_au"`      // null: unknown
+	// Method is how the region was found: "linear" or "montecarlo".
+	Method string `json:"region_method"`
+	// Samples are the sampled orbits' places as offsets from ra, dec
+	// (arcsec, RA·cos δ east and Dec north), with --samples only.
+	Samples [][2]float64 `json:"samples_offset_arcsec,omitempty"`
 }
 
 // predictionRecord turns a prediction into its printed record, with the
@@ -253,6 +260,7 @@ func predictionRecord(p fit.Prediction, sigma, fovArcmin float64) (predictionJSO
 		SunElongationDeg: pt.SunElongation.Degrees(),
 		Mag:              finite(p.Mag),
 		DeltaAU:          finite(p.DeltaAU),
+		Method:           p.Method,
 	}
 	if p.Site != nil {
 		name := p.Site.Name
@@ -294,6 +302,9 @@ func runPredict(o predictOptions, io streams) error {
 	if err := checkSigma(o.sigma); err != nil {
 		return err
 	}
+	if o.samples && !o.json {
+		return usagef("--samples lists the samples in the JSON: give --json too")
+	}
 	if !(o.fovArcmin > 0) || math.IsInf(o.fovArcmin, 0) {
 		return usagef("--fov %v: want a positive field of view in arcmin", o.fovArcmin)
 	}
@@ -320,6 +331,9 @@ func runPredict(o predictOptions, io streams) error {
 		r, err := predictionRecord(p, o.sigma, o.fovArcmin)
 		if err != nil {
 			return inputError(fmt.Errorf("%s: %v", src.file, err))
+		}
+		if o.samples {
+			r.Samples = p.Samples
 		}
 		recs = append(recs, r)
 	}
@@ -483,6 +497,9 @@ func writePredictText(w io.Writer, o predictOptions, src *predictInput, site *as
 		p("RA, Dec         %s  %s  (ICRS astrometric; %.6f°, %+.6f°)\n", r.RA, r.Dec, r.RADeg, r.DecDeg)
 		p("search region   %g-σ ellipse %.1f\" × %.1f\" (semi-axes), major axis at PA %.1f°; %.2f of a %g′ field\n",
 			r.Ellipse.Sigma, r.Ellipse.SemiMajorArcsec, r.Ellipse.SemiMinorArcsec, r.Ellipse.PADeg, ptrVal(r.RegionFields), o.fovArcmin)
+		if r.Method == "montecarlo" {
+			p("                from sampled orbits propagated to the time (Monte Carlo): the linear propagation is not trusted here\n")
+		}
 		p("motion          %.3f\"/min toward PA %.1f°\n", r.RateArcsecPerMin, r.RatePADeg)
 		if r.DeltaAU != nil {
 			p("distance        %.4f au from the observer\n", *r.DeltaAU)
@@ -521,6 +538,9 @@ func writePredictText(w io.Writer, o predictOptions, src *predictInput, site *as
 		}
 		if r.AltDeg != nil && *r.AltDeg < 0 {
 			flags = append(flags, "below horizon")
+		}
+		if r.Method == "montecarlo" {
+			flags = append(flags, "sampled")
 		}
 		fmt.Fprintf(tw, "  %s\t%s\t%s\t%.1f\t%.1f\t%.1f\t%s\t%s\t%.3f\t%.1f\t%.1f\t%s\n", r.TimeUTC, r.RA, r.Dec,
 			r.Ellipse.SemiMajorArcsec, r.Ellipse.SemiMinorArcsec, r.Ellipse.PADeg, ptrNum(r.AltDeg, 1), ptrNum(r.AzDeg, 1),
