@@ -14,7 +14,7 @@ import (
 // The invented sites of the orbit-fit tests.
 var (
 	dcAlderRidge  = &astro.Site{Name: "Alder Ridge", Lat: 44.52 * astro.Degree, Lon: -72.80 * astro.Degree, HeightM: 410}
-	dcBirchHollow = &astro.Site{Name: "Birch Hollow", Lat: -31.27 * astro.Degree, Lon: 149.07 * astro.Degree, HeightM: 1150}
+	dcBirchHollow = &astro.Site{Name: "Birch Hollow", Lat: -30.85 * astro.Degree, Lon: 148.40 * astro.Degree, HeightM: 620}
 )
 
 // dcCase is an invented orbit with an observing schedule.

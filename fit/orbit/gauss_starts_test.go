@@ -14,7 +14,7 @@ import (
 )
 
 // gaussSite is an invented observing site.
-var gaussSite = &astro.Site{Name: "Heron Flats", Lat: -31.27 * astro.Degree, Lon: 149.06 * astro.Degree, HeightM: 1160}
+var gaussSite = &astro.Site{Name: "Heron Flats", Lat: -30.85 * astro.Degree, Lon: 148.40 * astro.Degree, HeightM: 620}
 
 // gaussEpoch is the start of the invented observing runs (2027 Jan 28.5 UTC).
 var gaussEpoch = astro.JD{Day: 2461434.5, Scale: astro.UTC}

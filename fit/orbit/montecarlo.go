@@ -104,7 +104,7 @@ type OrbitSamples struct {
 // negative eigenvalue; settings out of range.
 //
 // Reference: Gentle, Random Number Generation and Monte Carlo Methods, 2nd
-// ed. (2003), §5.3.1 (multivariate normal by a factor of the covariance);
+// ed. (2003), ch. 5 (multivariate normal by a factor of the covariance);
 // O'Neill, "PCG: a family of simple fast space-efficient statistically good
 // algorithms for random number generation", HMC-CS-2014-0905 (2014);
 // Steele, Lea & Flood, "Fast splittable pseudorandom number generators",

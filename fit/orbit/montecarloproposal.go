@@ -137,6 +137,24 @@ func mcFitProposal(d []mcDraw, w []float64) (mcProposal, bool) {
 			}
 		}
 	}
+	q, ok := mcNormalProposal(mu, cov)
+	if !ok {
+		return q, false
+	}
+	zs := 0.0
+	for k := range 4 {
+		q.zc[k] = mu[2+k]
+		zs = math.Max(zs, math.Sqrt(cov.At(2+k, 2+k)))
+	}
+	q.zs = mcNormalScale * zs
+	return q, true
+}
+
+// mcNormalProposal returns the mixture whose normal part has mean mu and
+// covariance mcNormalScale²·cov, and whose box is mu ± mcBoxSigmas·σ in
+// (ρA, ρ̇) (the defensive offsets are left for the caller). ok is false for
+// a covariance that is not positive definite.
+func mcNormalProposal(mu [mcDim]float64, cov *mat.SymDense) (mcProposal, bool) {
 	var ch mat.Cholesky
 	if !ch.Factorize(cov) {
 		return mcProposal{}, false
@@ -155,11 +173,5 @@ func mcFitProposal(d []mcDraw, w []float64) (mcProposal, bool) {
 	sr, sd := math.Sqrt(cov.At(0, 0)), math.Sqrt(cov.At(1, 1))
 	q.box = mcBox{rho0: mu[0] - mcBoxSigmas*sr, rho1: mu[0] + mcBoxSigmas*sr, rd0: mu[1] - mcBoxSigmas*sd, rd1: mu[1] + mcBoxSigmas*sd}
 	q.box.clip()
-	zs := 0.0
-	for k := range 4 {
-		q.zc[k] = mu[2+k]
-		zs = math.Max(zs, math.Sqrt(cov.At(2+k, 2+k)))
-	}
-	q.zs = f * zs
 	return q, true
 }

@@ -32,7 +32,7 @@ const (
 	// mcStartScale is the σ of the first proposal of the anchors' offsets,
 	// in units of their fitted σ: 1.25, a proposal a little wider than the
 	// target (Robert & Casella, Monte Carlo Statistical Methods, 2nd ed.
-	// (2004), §3.3.2). A pilot that finds nothing halves it.
+	// (2004), ch. 3). A pilot that finds nothing halves it.
 	mcStartScale = 1.25
 	// mcChi2Cut: orbits whose χ² exceeds the best refined χ² by more than
 	// this weigh less than exp(−50) ≈ 2e-22 of the best and are dropped
@@ -73,18 +73,23 @@ type mcDraw struct {
 // region of Milani et al. 2004). It is sampled by adaptive importance
 // sampling: orbits drawn from a proposal q get the weight w ∝ p(θ)/q(θ).
 //
-// The proposal: first, the box of the systematic grid's nodes within
-// Δχ² = 100 of its best (ρA and ρ̇ uniform), the offsets normal with σ 1.25.
-// Pilot rounds of N/4 orbits (at least 1000) then fit a defensive mixture
-// to their weighted samples ([mcProposal]: 80 % a normal distribution with
-// their mean and 1.5² times their covariance, 20 % the box of their mean
-// ± 6 weighted σ in (ρA, ρ̇)); a pilot whose effective sample size is below
-// 20 instead halves the box about its best orbit and the offsets' σ. The
-// pilots stop when two successive fits agree (each side of the box within
-// a fifth of its width), at most 10. The final round draws N orbits; if more
-// than 1 % of its weight lies in the outer 5 % of a side of the box (or
-// beyond), that side is widened by half, the normal part by 1.5, and the
-// round drawn again (at most twice; Notes report a remaining edge weight).
+// The proposal: first, a defensive mixture ([mcProposal]) of 80 % the
+// Laplace approximation at the most probable θ (a normal distribution with
+// 1.5² times the covariance (JᵀJ)⁻¹ there, [rgProblem.mode]) and 20 % the
+// box of the systematic grid's nodes within Δχ² = 100 of its best (ρA and ρ̇
+// uniform, the offsets normal with σ 1.25). Pilot rounds of N/4 orbits (at
+// least 1000) then refit it to their weighted samples: the normal part to
+// their weighted mean and 1.5² times their weighted covariance, the
+// defensive box to their mean ± 6 weighted σ in (ρA, ρ̇) once their
+// effective sample size reaches 50. A pilot in which nothing fits halves the
+// offsets' σ; one whose weight sits on one or two orbits (effective size
+// below 3) halves the box about its best orbit as well. The pilots stop when
+// two successive fits with effective sizes of 20 or more agree (each side of
+// their μ ± 6σ box within a fifth of its width), after 10 at most. The
+// final round draws N orbits; if more than 1 % of its weight lies in the
+// outer 5 % of a side of the box (or beyond), that side is widened by half,
+// the normal part by 1.5, and the round drawn again (at most twice; Notes
+// report a remaining edge weight).
 //
 // Orbit i of a round is drawn from its own generator seeded from (s.Seed,
 // round, i), so the result does not depend on s.Workers. The returned set
@@ -95,13 +100,13 @@ type mcDraw struct {
 // no motion, no admissible orbit), and no admissible orbit drawn.
 //
 // Reference: Virtanen, Muinonen & Bowell, "Statistical ranging of asteroid
-// orbits", Icarus 154 (2001), 412–431, §2 (orbits through two observations
+// orbits", Icarus 154 (2001), 412–431 (orbits through two observations
 // at sampled distances, directions perturbed by the noise, weights from χ²);
 // Milani, Gronchi, de' Michieli Vitturi & Knežević, Celest. Mech. Dyn.
 // Astron. 90 (2004), 57–85 (admissible region); Cappé, Guillin, Marin &
 // Robert, J. Comput. Graph. Stat. 13 (2004), 907–929 (adaptive importance
 // sampling); Robert & Casella, Monte Carlo Statistical Methods, 2nd ed.
-// (2004), §3.3 (importance sampling).
+// (2004), ch. 3 (importance sampling).
 func RangingOrbits(obs []Observation, s MonteCarloSettings) (*OrbitSamples, error) {
 	s, err := s.resolved()
 	if err != nil {
@@ -127,12 +132,17 @@ func RangingOrbits(obs []Observation, s MonteCarloSettings) (*OrbitSamples, erro
 		box.rho0, box.rho1 = math.Min(box.rho0, rhoA), math.Max(box.rho1, rhoA)
 		box.rd0, box.rd1 = math.Min(box.rd0, rd), math.Max(box.rd1, rd)
 	}
+	var best rgFit
+	best.chi2 = math.Inf(1)
 	for _, ci := range g.minima(rgRefineMinima) {
 		c := g.cells[ci]
 		if f, ok := p.refine(c.rhoA, c.rhoB); ok {
 			chiMin = math.Min(chiMin, f.chi2)
 			if f.chi2 <= g.best+mcChi2Cut {
 				include(f.rhoA, f.rhoB)
+			}
+			if f.chi2 < best.chi2 {
+				best = f
 			}
 		}
 	}
@@ -146,22 +156,31 @@ func RangingOrbits(obs []Observation, s MonteCarloSettings) (*OrbitSamples, erro
 	box = mcBox{rho0: box.rho0 / step, rho1: box.rho1 * step, rd0: box.rd0 - 0.2*w - 1e-5, rd1: box.rd1 + 0.2*w + 1e-5}
 	box.clip()
 	q := mcProposal{box: box, alpha: 1, zs: mcStartScale}
+	var last mcBox // the normal part's μ ± 6σ box of the last fit
+	fitted := false
+	if !math.IsInf(best.chi2, 1) {
+		// The first proposal's normal part: the Laplace approximation at the
+		// mode over all six parameters.
+		if md, ok := p.mode(best.rhoA, best.rhoB); ok {
+			if qn, ok := mcNormalProposal(md.th, md.cov); ok {
+				last = qn.box
+				qn.box, qn.zs = box, mcStartScale
+				q = qn
+				chiMin = math.Min(chiMin, md.chi2)
+			}
+		}
+	}
 
 	nPilot := max(mcPilotMin, s.N/4)
 	prog := mcNewProgress(s.Progress, mcMaxPilots*nPilot+(1+mcMaxWiden)*s.N)
 	limit := chiMin + mcChi2Cut
 	round := 0
 	draws := make([]mcDraw, max(nPilot, s.N))
-	var last mcBox // the normal part's μ ± 6σ box of the last fit
-	fitted := false
 	for range mcMaxPilots {
 		d := draws[:nPilot]
 		p.sample(d, &q, limit, s, round, prog)
 		round++
 		wts, ess := mcWeights(d)
-		if mcDebug != nil {
-			mcDebug("pilot %d: ess %.1f alpha %.2f box %+v zs %.3g", round, ess, q.alpha, q.box, q.zs)
-		}
 		if ess == 0 {
 			// Nothing fits: the anchors' offsets are too wide for the arc.
 			q.zs /= 2
@@ -199,9 +218,6 @@ func RangingOrbits(obs []Observation, s MonteCarloSettings) (*OrbitSamples, erro
 		p.sample(d, &q, limit, s, round, prog)
 		round++
 		wts, ess = mcWeights(d)
-		if mcDebug != nil {
-			mcDebug("final %d: ess %.1f alpha %.2f box %+v zs %.3g", round, ess, q.alpha, q.box, q.zs)
-		}
 		var sides [4]float64
 		sides, edge = q.box.edgeWeight(d, wts)
 		if edge <= mcEdgeShare || widen == mcMaxWiden || ess == 0 {
@@ -397,5 +413,3 @@ func (b *mcBox) clip() {
 		b.rd0, b.rd1 = m-1e-7, m+1e-7
 	}
 }
-
-var mcDebug func(string, ...any)

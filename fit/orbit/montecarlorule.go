@@ -17,8 +17,7 @@ const (
 	// RuleExtrapolation: a prediction farther from the arc than this many
 	// times the arc's length is sampled from the covariance (the linear
 	// propagation of an orbit's covariance degrades as the extrapolation
-	// grows; Milani & Gronchi, Theory of Orbit Determination (2010), §5.7,
-	// and common practice).
+	// grows; common practice).
 	RuleExtrapolation = 1.0
 	// RuleSizeChange and RuleCentreSigmas: a sampled region whose 1σ
 	// semi-axes differ from the linear ones by more than 20 %, or whose
@@ -107,17 +106,17 @@ func rgCountNights(times []float64) int {
 // from the linear place in the linear covariance's metric. When it does,
 // the sampled region is the one to report; reason says what differs.
 func CompareLinear(ra, dec astro.Angle, covArcsec2 [2][2]float64, r *SampledRegion) (differ bool, reason string) {
-	lin := (&SampledRegion{CovArcsec2: covArcsec2}).Ellipse(1)
-	mc := r.Ellipse(1)
-	if !(lin.SemiMajorArcsec > 0) {
+	linA, linB, _ := smpAxes(covArcsec2, 1)
+	mcA, mcB, _ := smpAxes(r.CovArcsec2, 1)
+	if !(linA > 0) {
 		return true, "the linear covariance is degenerate"
 	}
 	var why []string
-	if d := mc.SemiMajorArcsec/lin.SemiMajorArcsec - 1; math.Abs(d) > RuleSizeChange {
+	if d := mcA/linA - 1; math.Abs(d) > RuleSizeChange {
 		why = append(why, fmt.Sprintf("semi-major axis %+.0f%%", 100*d))
 	}
-	if lin.SemiMinorArcsec > 0 {
-		if d := mc.SemiMinorArcsec/lin.SemiMinorArcsec - 1; math.Abs(d) > RuleSizeChange {
+	if linB > 0 {
+		if d := mcB/linB - 1; math.Abs(d) > RuleSizeChange {
 			why = append(why, fmt.Sprintf("semi-minor axis %+.0f%%", 100*d))
 		}
 	}

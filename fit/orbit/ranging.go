@@ -40,35 +40,37 @@ func (e *RangingError) Error() string {
 // by a systematic search over the topocentric distance, for arcs too short
 // for Gauss's method (one or two nights) or where it fails. Each Start has
 // Method [MethodRanging], its State at the TDB instant of the used
-// observation nearest the middle of the arc, and Chi2 against all the used
-// observations ([State.Residuals]); best first, at most [RangingMaxStarts].
+// observation nearest the middle of the arc, and Chi2 against the used
+// observations (as [State.Residuals]; an observation with a place or σ that
+// is not finite is left out); best first, at most [RangingMaxStarts].
 //
 // Method: statistical ranging (Virtanen, Muinonen & Bowell 2001) on a
 // systematic grid in the admissible region (Milani et al. 2004). Every trial
-// orbit passes through the first used observation A and the last B at trial
-// distances ρA, ρB from their observers (the orbit through the two positions
-// in the time between them, light time included: Lambert's problem, see
-// [rgLambert]). The trial distances form a grid over the geocentric distance
-// ρ at the middle of the arc, 0.01–100 au with 12 steps per decade, and its
+// orbit passes through two anchors, A on the first night and B on the last
+// (the track's place at one observation's instant, fitted to that night's
+// observations from the site, diurnal parallax included; [rgAnchor]), at
+// trial distances ρA, ρB from their observers: the orbit through the two
+// positions in the time between them, light time included (Lambert's
+// problem, [rgLambert]). The trial distances form a grid over the geocentric
+// distance ρ at the middle, 0.01–100 au with 12 steps per decade, and its
 // rate ρ̇, 25 steps across the interval in which the heliocentric orbit is
-// bound (see [rgProblem.grid]). Orbits that are not admissible are dropped:
+// bound ([rgProblem.grid]). Orbits that are not admissible are dropped:
 // e ≥ [RangingMaxEccentricity] (only bound orbits are kept), a perihelion
-// inside the Sun, a distance from the Sun below [StartMinSunDistanceAU] at A
-// or B. The others are scored by their χ² against the other used
-// observations (the sum cut short once it is clearly not a minimum); the
-// grid's local minima, best first, are refined by Levenberg–Marquardt over
-// (ln ρA, ln ρB) ([rgProblem.refine]), and the distinct results are
-// returned.
+// inside the Sun, a distance from the Sun below [StartMinSunDistanceAU] at
+// A or B. The others are scored by their χ² against the used observations
+// (a sum cut short once it is clearly not a minimum). The grid's local
+// minima, best first, are refined by Levenberg–Marquardt over (ln ρA,
+// ln ρB) ([rgProblem.refine]); the distinct results are then polished over
+// all six parameters, the anchors' places free too ([rgProblem.mode]).
 //
-// The starts fit A and B exactly and the others as well as two free
-// parameters allow: they are starting points for [Correct]. The Notes give
+// The starts are starting points for [Correct]. The Notes give the anchors,
 // the distances, the orbit's a and e, and the range of distances the grid
-// found within Δχ² = 9 of its best node — a wide range says that the arc does
-// not determine the distance, and the cloud of [RangingOrbits] describes the
-// orbit better than any one start.
+// found within Δχ² = 9 of its best node — a wide range says that the arc
+// does not determine the distance, and the cloud of [RangingOrbits]
+// describes the orbit better than any one start.
 //
-// Cost: about 1 200 trial orbits and a few hundred more for the refinement,
-// each scored against the observations (see BenchmarkRangingStarts).
+// Cost: about 1 200 trial orbits on the grid and a few hundred more for the
+// refinement, each scored against the observations (BenchmarkRangingStarts).
 //
 // Errors, each a *[RangingError]: fewer than three used observations at
 // distinct times; all within an hour; no motion above the noise; no
@@ -86,7 +88,7 @@ func RangingStarts(obs []Observation) ([]Start, error) {
 	g := p.grid()
 	if g.nOK == 0 || math.IsInf(g.best, 1) {
 		return nil, &RangingError{Case: DegenerateNoSolution,
-			Reason: fmt.Sprintf("no bound heliocentric orbit passes through the first and last observations (lines %d and %d) at any distance from %g to %g au",
+			Reason: fmt.Sprintf("no bound heliocentric orbit passes through the anchors (lines %d and %d) at any distance from %g to %g au",
 				obs[p.ia].Line, obs[p.ib].Line, rgGridRhoMinAU, rgGridRhoMaxAU),
 			Hint: "a check of the observations' times, sites and positions (an artificial satellite, or a mix of two objects?)"}
 	}
@@ -118,9 +120,17 @@ func RangingStarts(obs []Observation) ([]Start, error) {
 			loRho, hiRho = math.Min(loRho, r), math.Max(hiRho, r)
 		}
 	}
+	// Polish each minimum over all six parameters (the anchors' places
+	// free as well).
+	for k := range fits {
+		if md, ok := p.mode(fits[k].rhoA, fits[k].rhoB); ok && md.chi2 < fits[k].chi2 {
+			fits[k].rhoA, fits[k].rhoB = md.th[0], md.th[0]+md.th[1]*p.dt
+			fits[k].chi2, fits[k].st = md.chi2, md.st
+			fits[k].polished = true
+		}
+	}
 	mid := &obs[p.mid]
 	var starts []Start
-	var buf []float64
 	for k, f := range fits {
 		pos, vel, err := f.st.At(mid.Geo.TDB)
 		if err != nil {
@@ -130,18 +140,17 @@ func RangingStarts(obs []Observation) ([]Start, error) {
 		if !st.Valid() {
 			continue
 		}
-		var chi2 float64
-		buf, chi2, err = st.Residuals(obs, buf[:0])
-		if err != nil || !rgFiniteF(chi2) {
+		chi2, _, full := p.chi2(st, p.all, math.Inf(1), nil)
+		if !full {
 			continue
 		}
 		e, q := rgConic(pos, vel)
 		a := q / (1 - e)
 		notes := []string{
-			fmt.Sprintf("ranging through the observations at lines %d and %d (arc %.2f d, %d night(s)): distance %.4g au at the first, %.4g au at the last",
-				obs[p.ia].Line, obs[p.ib].Line, p.dt, p.night, f.rhoA, f.rhoB),
-			fmt.Sprintf("minimum %d of %d refined from the grid (%d Levenberg–Marquardt iterations): a = %.4g au, e = %.3f, q = %.4g au, r = %.4g au",
-				k+1, len(fits), f.iters, a, e, q, r3.Norm(pos)),
+			fmt.Sprintf("ranging through anchors at lines %d and %d (%.2f d apart; arc %.2f d, %d night(s)): distance %.4g au at the first, %.4g au at the second",
+				obs[p.ia].Line, obs[p.ib].Line, p.dt, p.span, p.night, f.rhoA, f.rhoB),
+			fmt.Sprintf("minimum %d of %d refined from the grid (%d Levenberg–Marquardt iterations over the two distances%s): a = %.4g au, e = %.3f, q = %.4g au, r = %.4g au",
+				k+1, len(fits), f.iters, rgPolished(f), a, e, q, r3.Norm(pos)),
 			fmt.Sprintf("the grid fits within Δχ² = 9 of its best node from %.3g to %.3g au (geocentric distance at mid-arc)", loRho, hiRho),
 		}
 		starts = append(starts, Start{State: st, Method: MethodRanging, Chi2: chi2, Notes: notes})
@@ -156,4 +165,12 @@ func RangingStarts(obs []Observation) ([]Start, error) {
 		starts = starts[:RangingMaxStarts]
 	}
 	return starts, nil
+}
+
+// rgPolished says in a note whether the six-parameter polish improved a fit.
+func rgPolished(f rgFit) string {
+	if f.polished {
+		return ", then all six parameters"
+	}
+	return ""
 }

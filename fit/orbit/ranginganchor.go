@@ -32,9 +32,9 @@ import (
 // of (a_x, a_y)) does not depend on ρ. With a single observation (or all at
 // one instant) the anchor is that observation, with its own covariance.
 //
-// Reference: the diurnal parallax on the tangent plane, Smart, Textbook on
-// Spherical Astronomy, 6th ed. (1977), ch. IX; weighted least squares by QR,
-// Björck, Numerical Methods for Least Squares Problems (1996), ch. 1–2.
+// Reference: the diurnal parallax, Smart, Textbook on Spherical Astronomy,
+// 6th ed. (1977); weighted least squares, Björck, Numerical Methods for
+// Least Squares Problems (1996), ch. 1–2.
 type rgAnchor struct {
 	obs     int    // the anchor observation, index into the observations
 	c, e, n r3.Vec // tangent point (the observed direction) and its east, north

@@ -63,9 +63,9 @@ type rgGrid struct {
 //
 // Reference: Milani, Gronchi, de' Michieli Vitturi & Knežević, "Orbit
 // determination with very short arcs. I. Admissible regions", Celest. Mech.
-// Dyn. Astron. 90 (2004), 57–85, §3 (the energy condition as a quadratic in
+// Dyn. Astron. 90 (2004), 57–85 (the energy condition as a quadratic in
 // ρ̇); Virtanen, Muinonen & Bowell, "Statistical ranging of asteroid orbits",
-// Icarus 154 (2001), 412–431, §2 (orbits through two observations at trial
+// Icarus 154 (2001), 412–431 (orbits through two observations at trial
 // distances).
 func (p *rgProblem) grid() *rgGrid {
 	n := int(math.Round(math.Log10(rgGridRhoMaxAU/rgGridRhoMinAU)*rgGridPerDecade)) + 1

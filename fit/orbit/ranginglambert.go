@@ -23,8 +23,9 @@ import (
 //	√mu·t(z) = (y/C)^(3/2)·S + A·√y
 //
 // t(z) increases from 0 (where y = 0) to ∞ (z → 4π²); the root of
-// t(z) = dt is bracketed and found by the Illinois variant of regula falsi
-// (bisection where it stalls). Then f = 1 − y/r₁, g = A·√(y/mu),
+// t(z) = dt is found by Newton's method from z = 0 (the parabola) with the
+// derivative of [rgLambertF], kept inside the bracket the iterates build
+// (bisection where a step leaves it). Then f = 1 − y/r₁, g = A·√(y/mu),
 // ġ = 1 − y/r₂ and
 //
 //	v₁ = (r⃗₂ − f·r⃗₁)/g,   v₂ = (ġ·r⃗₂ − r⃗₁)/g.
@@ -34,9 +35,8 @@ import (
 // Sun).
 //
 // Reference: Bate, Mueller & White, Fundamentals of Astrodynamics (1971),
-// §5.3 (the universal-variable solution of the Gauss problem); Curtis,
-// Orbital Mechanics for Engineering Students (2005), §5.3, Algorithm 5.2;
-// Dowell & Jarratt, BIT 11 (1971), 168 (the Illinois method).
+// ch. 5 (the universal-variable solution of the Gauss problem); Curtis,
+// Orbital Mechanics for Engineering Students (2005), §5.3, Algorithm 5.2.
 func rgLambert(r1, r2 r3.Vec, dt, mu float64) (v1, v2 r3.Vec, ok bool) {
 	n1, n2 := r3.Norm(r1), r3.Norm(r2)
 	if !(dt > 0) || !(n1 > 0) || !(n2 > 0) || math.IsInf(dt, 0) {
@@ -48,73 +48,45 @@ func rgLambert(r1, r2 r3.Vec, dt, mu float64) (v1, v2 r3.Vec, ok bool) {
 	}
 	A := math.Sqrt(a2)
 	target := math.Sqrt(mu) * dt
-	// F(z) = √mu·t(z) − √mu·dt, continued below the zero of y by y itself
-	// (F is then increasing through the whole real line).
-	F := func(z float64) (float64, float64) {
-		_, _, c, s := ephem.Stumpff(z)
-		y := n1 + n2 + A*(z*s-1)/math.Sqrt(c)
-		if y <= 0 {
-			return y - target, y
-		}
-		x := math.Sqrt(y / c)
-		return x*x*x*s + A*math.Sqrt(y) - target, y
-	}
 	const zMax = 4 * math.Pi * math.Pi
-	hi := zMax * (1 - 1e-9)
-	fhi, _ := F(hi)
-	if !(fhi > 0) {
-		return r3.Vec{}, r3.Vec{}, false // would need more than one revolution
-	}
-	lo := 0.0
-	flo, _ := F(lo)
-	if flo > 0 {
-		hi, fhi = lo, flo
-		lo = -1
-		for {
-			flo, _ = F(lo)
-			if flo < 0 {
-				break
-			}
-			hi, fhi = lo, flo
-			lo *= 4
-			if lo < -4e5 { // the Stumpff functions overflow soon after
-				return r3.Vec{}, r3.Vec{}, false
-			}
-		}
-	}
-	z := lo
-	side := 0
-	for range 200 {
-		if flo == 0 {
-			z = lo
+	lo, hi := math.Inf(-1), zMax
+	z := 0.0
+	converged := false
+	for range 100 {
+		f, fp := rgLambertF(z, n1, n2, A, target)
+		if f == 0 {
+			converged = true
 			break
 		}
-		z = (lo*fhi - hi*flo) / (fhi - flo)
-		if !(z > lo && z < hi) {
-			z = 0.5 * (lo + hi)
-		}
-		fz, _ := F(z)
-		if fz == 0 || hi-lo <= 1e-15*math.Max(1, math.Abs(z)) {
-			break
-		}
-		if fz < 0 {
-			lo, flo = z, fz
-			if side == -1 {
-				fhi *= 0.5
-			}
-			side = -1
+		if f < 0 {
+			lo = z
 		} else {
-			hi, fhi = z, fz
-			if side == 1 {
-				flo *= 0.5
-			}
-			side = 1
+			hi = z
 		}
-		if math.Abs(fz) <= 1e-15*target {
+		next := z - f/fp
+		if !(next > lo && next < hi) || math.IsNaN(next) {
+			switch {
+			case math.IsInf(lo, -1):
+				next = z - 2*math.Max(1, math.Abs(z)) // step down until F < 0
+				if next < -4e5 {                      // the Stumpff functions overflow soon after
+					return r3.Vec{}, r3.Vec{}, false
+				}
+			default:
+				next = 0.5 * (lo + hi)
+			}
+		}
+		done := math.Abs(next-z) <= 1e-14*math.Max(1, math.Abs(z)) || math.Abs(f) <= 1e-15*target
+		z = next
+		if done {
+			converged = true
 			break
 		}
 	}
-	_, y := F(z)
+	if !converged || !(z < zMax) {
+		return r3.Vec{}, r3.Vec{}, false
+	}
+	_, _, c, s := ephem.Stumpff(z)
+	y := n1 + n2 + A*(z*s-1)/math.Sqrt(c)
 	if !(y > 0) {
 		return r3.Vec{}, r3.Vec{}, false
 	}
@@ -127,6 +99,37 @@ func rgLambert(r1, r2 r3.Vec, dt, mu float64) (v1, v2 r3.Vec, ok bool) {
 		return r3.Vec{}, r3.Vec{}, false
 	}
 	return v1, v2, true
+}
+
+// rgLambertF returns F(z) = √mu·t(z) − √mu·dt of [rgLambert] (target =
+// √mu·dt) and dF/dz, continued below the zero of y by F = y − target (F is
+// then increasing on the whole line). The derivative follows from
+// y′ = A·((S + zS′)/√C − (zS − 1)·C′/(2C^(3/2))), x = √(y/C),
+// x′ = (y′/C − y·C′/C²)/(2x) and F′ = 3x²x′S + x³S′ + A·y′/(2√y), with the
+// Stumpff identities C′ = (1 − zS − 2C)/(2z), S′ = (C − 3S)/(2z) (they
+// follow from the series C = Σ(−z)ᵏ/(2k + 2)!, S = Σ(−z)ᵏ/(2k + 3)!; Bate,
+// Mueller & White 1971, ch. 4), or the differentiated series
+// −1/24 + z/360 − z²/13440 and −1/120 + z/2520 − z²/120960 for |z| < 0.01.
+func rgLambertF(z, n1, n2, A, target float64) (f, fp float64) {
+	_, _, c, s := ephem.Stumpff(z)
+	var dc, ds float64
+	if math.Abs(z) < 0.01 {
+		dc = -1.0/24 + z/360 - z*z/13440
+		ds = -1.0/120 + z/2520 - z*z/120960
+	} else {
+		dc = (1 - z*s - 2*c) / (2 * z)
+		ds = (c - 3*s) / (2 * z)
+	}
+	sc := math.Sqrt(c)
+	y := n1 + n2 + A*(z*s-1)/sc
+	dy := A * ((s+z*ds)/sc - (z*s-1)*dc/(2*c*sc))
+	if y <= 0 {
+		return y - target, dy
+	}
+	x := math.Sqrt(y / c)
+	dx := (dy/c - y*dc/(c*c)) / (2 * x)
+	sy := math.Sqrt(y)
+	return x*x*x*s + A*sy - target, 3*x*x*dx*s + x*x*x*ds + A*dy/(2*sy)
 }
 
 // rgFinite reports whether every component of v is finite.

@@ -89,3 +89,22 @@ func TestLambertDegenerate(t *testing.T) {
 		}
 	}
 }
+
+// The derivative of the time equation against a central difference of the
+// function itself (step 1e-6 in z: truncation ~1e-12 relative, rounding
+// ~1e-10 relative for these magnitudes; tolerance 1e-7 relative), on both
+// sides of the series/closed-form switch at |z| = 0.01, for an ellipse
+// (z > 0) and a hyperbola (z < 0).
+func TestLambertDerivative(t *testing.T) {
+	const n1, n2, A, target = 2.5, 2.49, 3.5, 0.02
+	for _, z := range []float64{-30, -1, -0.0101, -0.0099, 0, 0.0099, 0.0101, 1, 20, 39} {
+		_, fp := rgLambertF(z, n1, n2, A, target)
+		h := 1e-6
+		fa, _ := rgLambertF(z+h, n1, n2, A, target)
+		fb, _ := rgLambertF(z-h, n1, n2, A, target)
+		num := (fa - fb) / (2 * h)
+		if math.Abs(fp-num) > 1e-7*math.Abs(num) {
+			t.Errorf("z = %g: F′ = %.12g, central difference %.12g", z, fp, num)
+		}
+	}
+}

@@ -24,9 +24,10 @@ const (
 	// have: 1, bound orbits only, as in the admissible region of Milani et
 	// al. (2004). Mildly hyperbolic orbits are not admitted: for a one- or
 	// two-night arc they would add a large region of unbound orbits around
-	// every object, while catalogued comets with e > 1 exceed it by less than
-	// 0.01 (common practice), so a near-parabolic comet loses only the sliver
-	// 1 < e < 1.01 of its region.
+	// every object. A near-parabolic comet whose orbit is bound keeps its
+	// region; the rare comets with a slightly hyperbolic osculating orbit
+	// (e up to about 1.06 for the most extreme known; from memory) lose the
+	// part with e ≥ 1 and need a longer arc and the differential correction.
 	RangingMaxEccentricity = 1.0
 	// rgSunRadiusAU is the Sun's radius, 696 000 km (IAU 2015 Resolution B3,
 	// nominal solar radius): no admissible orbit has its perihelion inside it.
@@ -234,7 +235,8 @@ func (p *rgProblem) orbit(rhoA, rhoB float64, ua, ub r3.Vec) (State, bool) {
 
 // rgConic returns the eccentricity e = |((v² − μ/r)·r − (r·v)·v)/μ| and the
 // perihelion distance q = |r × v|²/(μ(1 + e)) of the heliocentric two-body
-// orbit (r, v) (common practice; Danby 1988, §6.4–6.5).
+// orbit (r, v) (common practice; Danby, Fundamentals of Celestial
+// Mechanics, 2nd ed. (1988), ch. 6).
 func rgConic(r, v r3.Vec) (e, q float64) {
 	mu := ephem.GMSun
 	rn := r3.Norm(r)

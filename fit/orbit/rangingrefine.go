@@ -10,6 +10,7 @@ type rgFit struct {
 	chi2       float64 // against the used observations
 	st         State
 	iters      int
+	polished   bool // improved by the six-parameter polish ([rgProblem.mode])
 }
 
 // Constants of the refinement.

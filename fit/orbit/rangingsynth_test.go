@@ -15,7 +15,7 @@ import (
 // element sets belong to no catalogued object.
 var (
 	rgAlderRidge  = &astro.Site{Name: "Alder Ridge", Lat: 44.52 * astro.Degree, Lon: -72.80 * astro.Degree, HeightM: 410}
-	rgBirchHollow = &astro.Site{Name: "Birch Hollow", Lat: -31.27 * astro.Degree, Lon: 149.07 * astro.Degree, HeightM: 1150}
+	rgBirchHollow = &astro.Site{Name: "Birch Hollow", Lat: -30.85 * astro.Degree, Lon: 148.40 * astro.Degree, HeightM: 620}
 
 	// rgMainBelt: an invented main-belt asteroid near opposition in
 	// February 2027 (about 1.7 au from the Earth).

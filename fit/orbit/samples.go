@@ -15,7 +15,8 @@ import (
 type SkySample struct {
 	// RA, Dec are the astrometric ICRS place for the observer.
 	RA, Dec astro.Angle
-	// Weight is the orbit's weight (the weights of a region sum to 1).
+	// Weight is the orbit's weight (those of a region sum to 1 less its
+	// LostWeight).
 	Weight float64
 	// DeltaAU is the distance from the observer, au.
 	DeltaAU float64
@@ -40,12 +41,12 @@ type SampledRegion struct {
 	CovArcsec2 [2][2]float64
 	// DeltaAU is the weighted mean distance from the observer, au.
 	DeltaAU float64
-	// Samples are the places, in the order of the orbits.
+	// Samples are the places, in the order of the orbits; an orbit that
+	// could not be propagated to the instant is left out.
 	Samples []SkySample
-	// Failed counts orbits that could not be propagated to the instant;
-	// Far those more than 80° from the centre (kept in Samples, left out of
-	// the covariance, counted outside every ellipse). Their weight is in
-	// LostWeight.
+	// Failed counts the orbits left out; Far the samples more than 80° from
+	// the centre (kept in Samples, left out of the covariance, counted
+	// outside every ellipse). LostWeight is the weight of both.
 	Failed, Far int
 	LostWeight  float64
 	// EffectiveN is Kish's effective sample size of the weights used.
@@ -70,9 +71,9 @@ type RegionEllipse struct {
 	Inside float64
 }
 
-// rgFarCos is the cosine of 80°: samples farther than that from the centre
+// smpFarCos is the cosine of 80°: samples farther than that from the centre
 // have no useful place on its tangent plane (tan 80° = 5.7).
-var rgFarCos = math.Cos(80 * math.Pi / 180)
+var smpFarCos = math.Cos(80 * math.Pi / 180)
 
 // Predict propagates every orbit of the set to the observer geometry at
 // (two-body motion, light time, [State.Observe]) and returns the search
@@ -82,7 +83,8 @@ var rgFarCos = math.Cos(80 * math.Pi / 180)
 // The centre: the weighted mean of the unit vectors gives a first tangent
 // point c₀; the weighted mean (ξ̄, η̄) of the samples' standard coordinates
 // about c₀ (gnomonic projection, [Residual]) is deprojected to the centre c,
-// and the samples are projected again about c. The covariance is
+// and the samples are projected again about c (their weighted mean there
+// is then zero to second order in the cloud's size). The covariance is
 //
 //	C = Σ wᵢ·dᵢ·dᵢᵀ / (1 − Σ wᵢ²),   dᵢ = (ξᵢ − ξ̄, ηᵢ − η̄)
 //
@@ -92,8 +94,8 @@ var rgFarCos = math.Cos(80 * math.Pi / 180)
 //
 // Reference: Calabretta & Greisen, A&A 395 (2002), 1077, §5.1.3 (gnomonic
 // projection); the weighted covariance with reliability weights: Galassi et
-// al., GNU Scientific Library Reference Manual, 3rd ed. (2009), §21.7
-// ("Weighted Samples"); Kish, Survey Sampling (1965), §11.7 (effective
+// al., GNU Scientific Library Reference Manual, 3rd ed. (2009), statistics
+// chapter, "Weighted Samples"; Kish, Survey Sampling (1965) (effective
 // sample size).
 func (o *OrbitSamples) Predict(at ephem.ObserverGeometry, s MonteCarloSettings) (*SampledRegion, error) {
 	if o == nil || len(o.States) == 0 {
@@ -116,7 +118,6 @@ func (o *OrbitSamples) Predict(at ephem.ObserverGeometry, s MonteCarloSettings) 
 		return func(i int) {
 			seen, err := o.States[i].Observe(at)
 			if err != nil || !rgFinite(seen.Dir) || !rgFiniteF(seen.DeltaAU) {
-				samples[i] = SkySample{Weight: o.Weights[i], DeltaAU: math.NaN()}
 				return
 			}
 			ra, dec, _ := astro.Spherical(seen.Dir)
@@ -126,73 +127,76 @@ func (o *OrbitSamples) Predict(at ephem.ObserverGeometry, s MonteCarloSettings) 
 		}
 	})
 	prog.finish()
-	r := &SampledRegion{UTC: at.UTC, Method: o.Method, Samples: samples, Notes: append([]string(nil), o.Notes...)}
-	var sum r3.Vec
+	r := &SampledRegion{UTC: at.UTC, Method: o.Method, Notes: append([]string(nil), o.Notes...)}
+	// Keep the orbits that reached the instant, in order.
+	k := 0
 	for i := range n {
 		if !okAt[i] {
 			r.Failed++
 			r.LostWeight += o.Weights[i]
-			samples[i].RA, samples[i].Dec = 0, 0
 			continue
 		}
-		sum = r3.Add(sum, r3.Scale(o.Weights[i], dirs[i]))
+		samples[k], dirs[k] = samples[i], dirs[i]
+		k++
 	}
-	if r.Failed == n || !(r3.Norm(sum) > 0) {
+	samples, dirs = samples[:k], dirs[:k]
+	r.Samples = samples
+	var sum r3.Vec
+	for i := range samples {
+		sum = r3.Add(sum, r3.Scale(samples[i].Weight, dirs[i]))
+	}
+	if k == 0 || !(r3.Norm(sum) > 0) {
 		return nil, fmt.Errorf("orbit: Monte Carlo: none of the %d orbits could be propagated to %v", n, at.UTC)
 	}
+	// Centre: the mean direction, moved to the weighted mean of the
+	// standard coordinates about it.
 	c := r3.Unit(sum)
-	for pass := range 2 {
-		var sw, sx, sy float64
-		r.Far, r.LostWeight = 0, 0
-		for i := range n {
-			if !okAt[i] {
-				r.LostWeight += o.Weights[i]
-				continue
-			}
-			if r3.Dot(dirs[i], c) < rgFarCos {
-				r.Far++
-				r.LostWeight += o.Weights[i]
-				continue
-			}
-			x, y := Residual(samples[i].RA, samples[i].Dec, c)
-			w := o.Weights[i]
-			sw += w
-			sx += w * x
-			sy += w * y
+	var sw, sx, sy float64
+	for i := range samples {
+		if r3.Dot(dirs[i], c) < smpFarCos {
+			continue
 		}
-		if !(sw > 0) {
-			return nil, errors.New("orbit: Monte Carlo: the sampled places carry no weight")
-		}
-		if pass == 0 {
-			e, nn := EastNorth(c)
-			c = r3.Unit(r3.Add(c, r3.Add(r3.Scale(sx/sw, e), r3.Scale(sy/sw, nn))))
-		}
+		x, y := Residual(samples[i].RA, samples[i].Dec, c)
+		w := samples[i].Weight
+		sw, sx, sy = sw+w, sx+w*x, sy+w*y
 	}
-	ra, dec, _ := astro.Spherical(c)
-	r.RA, r.Dec = ra, dec
-	r.xi, r.eta = make([]float64, n), make([]float64, n)
-	var sw, sw2, sxx, sxy, syy, sd, mx, my float64
+	if !(sw > 0) {
+		return nil, errors.New("orbit: Monte Carlo: the sampled places carry no weight near their mean")
+	}
+	e, nn := EastNorth(c)
+	c = r3.Unit(r3.Add(c, r3.Add(r3.Scale(sx/sw, e), r3.Scale(sy/sw, nn))))
+	r.RA, r.Dec, _ = astro.Spherical(c)
+	// Standard coordinates about the centre (arcsec), the weighted mean and
+	// covariance.
+	r.xi, r.eta = make([]float64, k), make([]float64, k)
+	var sw2, sxx, sxy, syy, sd, mx, my float64
+	sw = 0
 	as := float64(astro.Arcsecond)
-	for i := range n {
+	for i := range samples {
 		r.xi[i], r.eta[i] = math.NaN(), math.NaN()
-		if !okAt[i] || r3.Dot(dirs[i], c) < rgFarCos {
+		if r3.Dot(dirs[i], c) < smpFarCos {
+			r.Far++
+			r.LostWeight += samples[i].Weight
 			continue
 		}
 		x, y := Residual(samples[i].RA, samples[i].Dec, c)
 		r.xi[i], r.eta[i] = x/as, y/as
-		w := o.Weights[i]
+		w := samples[i].Weight
 		sw += w
 		mx += w * r.xi[i]
 		my += w * r.eta[i]
 		sd += w * samples[i].DeltaAU
 	}
+	if !(sw > 0) {
+		return nil, errors.New("orbit: Monte Carlo: the sampled places carry no weight near their centre")
+	}
 	mx /= sw
 	my /= sw
-	for i := range n {
+	for i := range samples {
 		if math.IsNaN(r.xi[i]) {
 			continue
 		}
-		w := o.Weights[i] / sw
+		w := samples[i].Weight / sw
 		dx, dy := r.xi[i]-mx, r.eta[i]-my
 		sw2 += w * w
 		sxx += w * dx * dx
@@ -205,11 +209,9 @@ func (o *OrbitSamples) Predict(at ephem.ObserverGeometry, s MonteCarloSettings) 
 	}
 	r.CovArcsec2 = [2][2]float64{{sxx * corr, sxy * corr}, {sxy * corr, syy * corr}}
 	r.DeltaAU = sd / sw
-	if sw2 > 0 {
-		r.EffectiveN = 1 / sw2
-	}
+	r.EffectiveN = 1 / sw2
 	if r.Failed > 0 || r.Far > 0 {
-		r.Notes = append(r.Notes, fmt.Sprintf("%d orbit(s) could not be propagated and %d lie more than 80° from the centre: %.2g%% of the weight outside every ellipse",
+		r.Notes = append(r.Notes, fmt.Sprintf("%d orbit(s) could not be propagated to the instant and %d lie more than 80° from the centre: %.2g%% of the weight is outside every ellipse",
 			r.Failed, r.Far, 100*r.LostWeight))
 	}
 	return r, nil
@@ -227,21 +229,27 @@ func (o *OrbitSamples) Predict(at ephem.ObserverGeometry, s MonteCarloSettings) 
 // Reference: Press et al., Numerical Recipes, 3rd ed. (2007), §11.1 (the
 // Jacobi rotation) and §15.6 (confidence ellipses).
 func (r *SampledRegion) Ellipse(nSigma float64) RegionEllipse {
-	a, b, c := r.CovArcsec2[0][0], r.CovArcsec2[0][1], r.CovArcsec2[1][1]
+	a, b, pa := smpAxes(r.CovArcsec2, nSigma)
+	return RegionEllipse{Sigma: nSigma, SemiMajorArcsec: a, SemiMinorArcsec: b, PA: pa, Inside: r.inside(nSigma)}
+}
+
+// smpAxes returns the semi-axes (arcsec) and the position angle of the
+// major axis of the nSigma ellipse of the sky covariance cov (arcsec²; see
+// [SampledRegion.Ellipse]).
+func smpAxes(cov [2][2]float64, nSigma float64) (major, minor float64, pa astro.Angle) {
+	a, b, c := cov[0][0], cov[0][1], cov[1][1]
 	mid := (a + c) / 2
 	rad := math.Hypot((a-c)/2, b)
-	l1, l2 := mid+rad, math.Max(mid-rad, 0)
-	pa := 0.0
+	l1, l2 := math.Max(mid+rad, 0), math.Max(mid-rad, 0)
+	p := 0.0
 	if rad > 0 {
 		th := 0.5 * math.Atan2(2*b, a-c)
-		pa = math.Mod(math.Atan2(math.Cos(th), math.Sin(th)), math.Pi)
-		if pa < 0 {
-			pa += math.Pi
+		p = math.Mod(math.Atan2(math.Cos(th), math.Sin(th)), math.Pi)
+		if p < 0 {
+			p += math.Pi
 		}
 	}
-	el := RegionEllipse{Sigma: nSigma, SemiMajorArcsec: nSigma * math.Sqrt(math.Max(l1, 0)), SemiMinorArcsec: nSigma * math.Sqrt(l2), PA: astro.Angle(pa)}
-	el.Inside = r.inside(nSigma)
-	return el
+	return nSigma * math.Sqrt(l1), nSigma * math.Sqrt(l2), astro.Angle(p)
 }
 
 // inside returns the weight of the samples within nSigma (Mahalanobis) of
@@ -292,7 +300,7 @@ func (r *SampledRegion) inside(nSigma float64) float64 {
 // covariance.
 func (r *SampledRegion) Mahalanobis(ra, dec astro.Angle) float64 {
 	c := astro.UnitVector(r.RA, r.Dec)
-	if r3.Dot(astro.UnitVector(ra, dec), c) < rgFarCos {
+	if r3.Dot(astro.UnitVector(ra, dec), c) < smpFarCos {
 		return math.Inf(1)
 	}
 	x, y := Residual(ra, dec, c)
@@ -315,4 +323,18 @@ func (r *SampledRegion) Mahalanobis(ra, dec astro.Angle) float64 {
 		return math.Inf(1)
 	}
 	return math.Sqrt((cc*x*x - 2*b*x*y + a*y*y) / det)
+}
+
+// Offsets returns the samples' standard coordinates about the centre
+// (RA, Dec), arcsec, east (RA·cos δ) then north, with their weights, leaving
+// out the Far samples: the form of a prediction's sampled positions.
+func (r *SampledRegion) Offsets() (offsets [][2]float64, weights []float64) {
+	for i, s := range r.Samples {
+		if i >= len(r.xi) || math.IsNaN(r.xi[i]) {
+			continue
+		}
+		offsets = append(offsets, [2]float64{r.xi[i], r.eta[i]})
+		weights = append(weights, s.Weight)
+	}
+	return offsets, weights
 }
