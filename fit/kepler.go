@@ -132,7 +132,7 @@ func (f *OrbitFit) Predict(utc astro.JD, site *astro.Site) (Prediction, error) {
 	if r.DeltaAU > 0 {
 		p.DeltaAU = r.DeltaAU
 	}
-	p.Samples, _ = r.Offsets()
+	p.Samples, p.SampleWeights = r.Offsets()
 	return p, nil
 }
 

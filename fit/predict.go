@@ -50,6 +50,9 @@ type Prediction struct {
 	// arcsec, are in Samples).
 	Method  string
 	Samples [][2]float64
+	// SampleWeights are the samples' weights (summing to 1 less any lost
+	// weight), in the order of Samples.
+	SampleWeights []float64
 }
 
 // rateStepDays is the half-step of the central difference for the rate:

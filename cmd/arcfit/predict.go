@@ -233,7 +233,8 @@ type predictionJSON struct {
 	Method string `json:"region_method"`
 	// Samples are the sampled orbits' places as offsets from ra, dec
 	// (arcsec, RA·cos δ east and Dec north), with --samples only.
-	Samples [][2]float64 `json:"samples_offset_arcsec,omitempty"`
+	Samples       [][2]float64 `json:"samples_offset_arcsec,omitempty"`
+	SampleWeights []float64    `json:"samples_weight,omitempty"`
 }
 
 // predictionRecord turns a prediction into its printed record, with the
@@ -320,6 +321,9 @@ func runPredict(o predictOptions, io streams) error {
 	if err != nil {
 		return err
 	}
+	if src.saved != nil && src.saved.Orbit != nil && isTerminal(io.Err) {
+		src.saved.Orbit.MonteCarlo.Progress = progressBar(io.Err, "sampling orbits")
+	}
 	site := siteForPrediction(o.site, src.sites)
 
 	recs := make([]predictionJSON, 0, len(times))
@@ -333,7 +337,7 @@ func runPredict(o predictOptions, io streams) error {
 			return inputError(fmt.Errorf("%s: %v", src.file, err))
 		}
 		if o.samples {
-			r.Samples = p.Samples
+			r.Samples, r.SampleWeights = p.Samples, p.SampleWeights
 		}
 		recs = append(recs, r)
 	}
