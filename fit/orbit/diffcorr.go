@@ -438,7 +438,7 @@ func (c *corrector) run(x0 [6]float64, maxIter int) (lmResult, error) {
 					return lmResult{}, &CorrectError{
 						Reason: fmt.Sprintf("the observations do not determine the orbit: after %d iterations (χ²/dof %.3g) the best fit lies beyond the admissible orbits (%v)",
 							iter, chi2PerDoF(chi2, dof), strings.TrimPrefix(edge.Error(), "orbit: ")),
-						Hint:       "a longer arc or more nights would help; a search over distance (ranging) gives a region instead",
+						Hint:       "a longer arc or more nights would help (a second night usually suffices); meanwhile the sky-plane models give the position for the next hours",
 						Iterations: iter, Chi2DoF: chi2PerDoF(chi2, dof), Err: ErrUndetermined}
 				}
 				return lmResult{}, &CorrectError{
@@ -483,7 +483,7 @@ func undetermined(cond float64, iter int, chi2DoF float64) error {
 	}
 	return &CorrectError{
 		Reason:     fmt.Sprintf("the observations do not determine all six orbital parameters (condition number %s > %.0e)", c, MaxCond),
-		Hint:       "a longer arc or more nights would help; a search over distance (ranging) gives a region instead",
+		Hint:       "a longer arc or more nights would help (a second night usually suffices); meanwhile the sky-plane models give the position for the next hours",
 		Iterations: iter, Chi2DoF: chi2DoF, Err: ErrUndetermined}
 }
 
