@@ -160,10 +160,16 @@ func zeroNaN(x float64) float64 {
 // the auto rule picked (index sky): the orbit is used whenever it was
 // determined and fits the data — its χ²/dof no worse than the chosen
 // sky-plane model's beyond the χ² noise, r·(1 + 3√(2/dof)) with
-// r = max(1, χ²/dof of that model) — and, when both were cross-validated,
-// its cross-validated error is within one standard error of the sky-plane
-// model's (the two standard errors combined in quadrature: the folds of
-// an orbit fitted to fewer nights scatter more). The reason goes to Comparison.Reason.
+// r = max(1, χ²/dof of that model) — and, when it was cross-validated, the
+// orbits fitted without each night predict that night within their own
+// uncertainty: the normalised mean square of the misses (each miss over the
+// observation's and the fold's prediction covariance) at most 1 + 3/√F for
+// F folds (its expectation 1 plus three standard deviations, counting each
+// night as one pair of independent coordinates, which is conservative when
+// a night's misses are correlated). The raw cross-validated error is not
+// compared with the sky-plane models': an orbit fitted to one night fewer is
+// honestly less certain, and its folds' misses are larger for that reason,
+// not because the model is wrong. The reason goes to Comparison.Reason.
 //
 // Why prefer it: a two-body orbit is the physical model, so it extrapolates
 // beyond the arc where a polynomial in time does not (see [Horizon]).
@@ -194,10 +200,10 @@ func chooseKepler(c *Comparison, sky int) (int, string) {
 	if !(sol.Chi2DoF <= limit) {
 		return sky, fmt.Sprintf("kepler not used: its χ²/dof %.2f exceeds %.2f (the %s fit's, within its χ² noise)", sol.Chi2DoF, limit, sr.Model)
 	}
-	if !math.IsNaN(kr.CVErrorArcsec) && !math.IsNaN(sr.CVErrorArcsec) {
-		se := math.Hypot(zeroNaN(sr.CVSEArcsec), zeroNaN(kr.CVSEArcsec))
-		if kr.CVErrorArcsec > sr.CVErrorArcsec+se {
-			return sky, fmt.Sprintf("kepler not used: its cross-validated error %.3g″ exceeds %s's %.3g″ by more than their combined standard error %.2g″", kr.CVErrorArcsec, sr.Model, sr.CVErrorArcsec, se)
+	if nm := kr.CVNormRMS; !math.IsNaN(nm) && kr.CV.Folds > 0 {
+		limit := 1 + 3/math.Sqrt(float64(kr.CV.Folds))
+		if nm*nm > limit {
+			return sky, fmt.Sprintf("kepler not used: the orbits fitted without each night miss it by %.2f times their own uncertainty (normalised mean square %.2f, above %.2f)", nm, nm*nm, limit)
 		}
 	}
 	return k, fmt.Sprintf("kepler: the two-body orbit fits the data (χ²/dof %.2f, within the %s fit's %.2f and its χ² noise) and, unlike a polynomial in time, extrapolates beyond the arc; started from %s",

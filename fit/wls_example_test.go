@@ -50,7 +50,7 @@ func ExampleFit() {
 	fmt.Printf("3-sigma ellipse %.1f\" x %.1f\" at PA %.0f deg; rate %.3f\"/min towards PA %.1f deg\n",
 		e.SemiMajorArcsec, e.SemiMinorArcsec, e.PA.Degrees(), pr.RateArcsecPerMin, pr.RatePA.Degrees())
 	// Output:
-	// poly2: 14 of 14 used, rms 0.41", chi2/dof 0.90, 1/distance 0.73 ± 0.13 au^-1
-	// at 2027-02-09T05:31:51Z: RA 09:16:03.43 Dec +23:55:08.6
-	// 3-sigma ellipse 1.7" x 1.7" at PA 59 deg; rate 0.635"/min towards PA 300.5 deg
+	// poly2: 13 of 14 used, rms 0.40", chi2/dof 0.89, 1/distance 0.72 ± 0.14 au^-1
+	// at 2027-02-09T05:31:51Z: RA 09:16:03.42 Dec +23:55:08.4
+	// 3-sigma ellipse 1.7" x 1.7" at PA 31 deg; rate 0.634"/min towards PA 300.5 deg
 }

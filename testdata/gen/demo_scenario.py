@@ -43,6 +43,10 @@ Definitions (see shared/checks/references.md of the project):
     H-G law (Bowell et al. 1989, in Meeus, Astronomical Algorithms 2nd ed.,
     ch. 33: A1 = 3.33, B1 = 0.63, A2 = 1.87, B2 = 1.22) with 0.1 mag noise,
     band V.
+  * One outlier, as real data have: observation OUTLIER_INDEX (0-based, in
+    the plan's order) gets OUTLIER_EAST_ARCSEC, OUTLIER_NORTH_ARCSEC added on
+    top of its noise (a measurement spoiled by a faint star in the image);
+    the random draws are the same as without it.
   * Altitude and azimuth in truth.csv (checks only): erfa.atco13 on the
     topocentric astrometric place (parallax already in it, px = 0), refracted
     for 1010 hPa, 10 C, relative humidity 0, wavelength 0.55 um; azimuth from
@@ -68,6 +72,8 @@ EPS0 = math.radians(84381.406 / 3600.0)  # IAU 2006 obliquity at J2000
 SEED = 20270205
 SIGMA_ARCSEC = 0.5
 MAG_SIGMA = 0.1
+OUTLIER_INDEX = 8
+OUTLIER_EAST_ARCSEC, OUTLIER_NORTH_ARCSEC = 3.5, -2.0
 
 # The invented object. Elements invented to resemble a typical main-belt
 # asteroid near opposition in early February 2027.
@@ -289,7 +295,7 @@ def main():
     obs_rows, truth_rows = [], []
     ok = True
     print("check: site, time, elongation > 120 deg, altitude > 30 deg")
-    for si, y, mo, d, h, mi, s in PLAN:
+    for k_obs, (si, y, mo, d, h, mi, s) in enumerate(PLAN):
         site = SITES[si]
         utc1, utc2 = erfa.dtf2d("UTC", y, mo, d, h, mi, s)
         inst = Instant(utc1, utc2, site)
@@ -304,6 +310,9 @@ def main():
             site[0], fmt_iso(utc1, utc2, 1), elong, alt, sun_alt, delta,
             "ok" if good else "FAIL"))
         n1, n2 = rng.standard_normal(2)
+        if k_obs == OUTLIER_INDEX:
+            n1 += OUTLIER_EAST_ARCSEC / SIGMA_ARCSEC
+            n2 += OUTLIER_NORTH_ARCSEC / SIGMA_ARCSEC
         ra_m = erfa.anp(ra + n1 * sigma_rad / math.cos(dec))
         dec_m = dec + n2 * sigma_rad
         mag_m = mag + MAG_SIGMA * rng.standard_normal()
@@ -334,6 +343,8 @@ def main():
 
     obs_text = header("observations", [
         "Noise: seeded Gaussian, seed %d, sigma %.1f\" per coordinate (RA on the sky);" % (SEED, SIGMA_ARCSEC),
+        "one outlier: row %d of the data has %+.1f\" east, %+.1f\" north on top of its noise." % (
+            OUTLIER_INDEX + 1, OUTLIER_EAST_ARCSEC, OUTLIER_NORTH_ARCSEC),
         "mag: H-G law (H %.1f, G %.2f) plus %.1f mag noise, band V." % (H_MAG, G_SLOPE, MAG_SIGMA),
         "Columns: time UTC; ra hours:min:s, dec deg:min:s astrometric ICRS; sigma arcsec.",
     ]) + "time,ra,dec,sigma,site,mag,band\n" + "\n".join(obs_rows) + "\n"
