@@ -43,7 +43,8 @@ func TestHelp(t *testing.T) {
 			}
 		}
 	}
-	built := map[string]bool{"inspect": true, "demo": true, "ephem": true, "night": true, "fit": true, "predict": true}
+	built := map[string]bool{"inspect": true, "demo": true, "ephem": true, "night": true, "fit": true, "predict": true,
+		"plan": true, "simulate": true}
 	for _, c := range designCommands {
 		for _, args := range [][]string{{c, "--help"}, {c, "-h"}, {"help", c}, {c, "some-file.csv", "--help"}} {
 			code, out, errs := runArgs(t, args...)
@@ -91,21 +92,6 @@ func TestUsageErrors(t *testing.T) {
 		if code != exitUsage || out != "" || lines(errs) != 1 || !strings.Contains(errs, c.want) {
 			t.Errorf("arcfit %q: code %d, stdout %q, stderr %q; want 2, nothing, one line with %q",
 				c.args, code, out, errs, c.want)
-		}
-	}
-}
-
-// TestNotBuilt checks that the commands not built yet say so and exit 2,
-// whatever their arguments.
-func TestNotBuilt(t *testing.T) {
-	for _, c := range []string{"plan", "simulate"} {
-		for _, args := range [][]string{{c}, {c, "obs.csv", "--json"}, {c, "--", "--help"}} {
-			code, out, errs := runArgs(t, args...)
-			if code != exitUsage || out != "" || lines(errs) != 1 ||
-				!strings.HasPrefix(errs, "arcfit "+c+": not built yet") {
-				t.Errorf("arcfit %q: code %d, stdout %q, stderr %q; want 2, nothing, \"arcfit %s: not built yet…\"",
-					args, code, out, errs, c)
-			}
 		}
 	}
 }
