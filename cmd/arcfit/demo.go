@@ -18,7 +18,7 @@ import (
 
 // demoOptions are the options of the demo command.
 type demoOptions struct {
-	dir  string // --dir: where the demo files go
+	dir  string // --out: where the demo files go
 	json bool   // --json: print the results as JSON
 }
 
@@ -33,14 +33,14 @@ func demoCommand() *command {
 	return &command{
 		name:    "demo",
 		summary: "run the job on built-in invented data",
-		usage:   "arcfit demo [--dir DIR] [--json]",
+		usage:   "arcfit demo [--out DIR] [--json]",
 		about: "Writes the built-in demo data into DIR: invented observations of an invented asteroid, \"" +
 			demo.ObjectName + "\", from two invented sites on three nights of February 2027, and the sites file. " +
 			"Then runs on them every step arcfit has built so far: inspect, fit (saving the fit to demo-fit.json), " +
 			"predict for the next night and three weeks later from Alder Ridge, and where to point on the night of " +
 			demoNightDate + ". It overwrites only files " +
 			"that are the demo's own.",
-		example: "arcfit demo --dir ./arcfit-demo",
+		example: "arcfit demo --out ./arcfit-demo",
 		flags:   func() *pflag.FlagSet { return demoFlags(&demoOptions{}, io.Discard) },
 		run: func(args []string, io streams) error {
 			var o demoOptions
@@ -49,7 +49,7 @@ func demoCommand() *command {
 				return err
 			}
 			if fs.NArg() > 0 {
-				return usagef("takes no file arguments, got %q (use --dir)", fs.Arg(0))
+				return usagef("takes no file arguments, got %q (use --out)", fs.Arg(0))
 			}
 			return runDemo(o, io)
 		},
@@ -59,7 +59,7 @@ func demoCommand() *command {
 // demoFlags binds the demo flags to o.
 func demoFlags(o *demoOptions, stderr io.Writer) *pflag.FlagSet {
 	fs := newFlagSet("demo", stderr)
-	fs.StringVar(&o.dir, "dir", "arcfit-demo", "`dir`ectory to write the demo files into (made if missing)")
+	fs.StringVar(&o.dir, "out", "arcfit-demo", "`dir`ectory to write the demo files and charts into (made if missing)")
 	fs.BoolVar(&o.json, "json", false, "print the results as JSON")
 	return fs
 }
@@ -67,7 +67,7 @@ func demoFlags(o *demoOptions, stderr io.Writer) *pflag.FlagSet {
 // runDemo writes the demo files and runs the built steps on them.
 func runDemo(o demoOptions, io streams) error {
 	if o.dir == "" {
-		return usagef("--dir: want a directory")
+		return usagef("--out: want a directory")
 	}
 	if err := os.MkdirAll(o.dir, 0o755); err != nil {
 		return err
@@ -160,7 +160,7 @@ func checkFitOverwrite(path string) error {
 		return err
 	}
 	if !fit.IsFitFile(data) {
-		return usagef("%s exists and is not a fit file; not overwriting it (choose another --dir)", path)
+		return usagef("%s exists and is not a fit file; not overwriting it (choose another --out)", path)
 	}
 	return nil
 }
@@ -179,7 +179,7 @@ func checkOverwrite(path string) error {
 	head := make([]byte, len(demoMarker))
 	n, _ := io.ReadFull(f, head)
 	if !bytes.Equal(head[:n], []byte(demoMarker)) {
-		return usagef("%s exists and is not a demo file; not overwriting it (choose another --dir)", path)
+		return usagef("%s exists and is not a demo file; not overwriting it (choose another --out)", path)
 	}
 	return nil
 }

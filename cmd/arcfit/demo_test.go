@@ -18,7 +18,7 @@ import (
 // output: inspect, fit, predict and the night's sky.
 func TestDemoWritesAndInspects(t *testing.T) {
 	dir := filepath.Join(t.TempDir(), "new", "demo") // made by the command
-	code, out, errs := runArgs(t, "demo", "--dir", dir)
+	code, out, errs := runArgs(t, "demo", "--out", dir)
 	if code != exitOK {
 		t.Fatalf("demo: code %d, stderr %q", code, errs)
 	}
@@ -57,7 +57,7 @@ func TestDemoWritesAndInspects(t *testing.T) {
 	}
 
 	// A second run over its own files is fine; --json gives one JSON object.
-	code, out, errs = runArgs(t, "demo", "--json", "--dir="+dir)
+	code, out, errs = runArgs(t, "demo", "--json", "--out="+dir)
 	if code != exitOK {
 		t.Fatalf("demo again: code %d, stderr %q", code, errs)
 	}
@@ -116,7 +116,7 @@ func TestDemoKeepsForeignFiles(t *testing.T) {
 	if err := os.WriteFile(mine, []byte("name,lat_deg,lon_deg,height_m\nHome,40,-75,100\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	code, out, errs := runArgs(t, "demo", "--dir", dir)
+	code, out, errs := runArgs(t, "demo", "--out", dir)
 	if code != exitUsage || out != "" || lines(errs) != 1 || !strings.Contains(errs, "not overwriting") {
 		t.Errorf("demo over a foreign file: code %d stdout %q stderr %q; want 2, nothing, one line", code, out, errs)
 	}

@@ -208,7 +208,7 @@ func writeMainHelp(w io.Writer, cmds []*command) {
 	fmt.Fprintln(w, "0 success, 1 failure, 2 a usage or input error.")
 	fmt.Fprintln(w)
 	fmt.Fprintln(w, "Example:")
-	fmt.Fprintln(w, "  arcfit demo --dir ./arcfit-demo")
+	fmt.Fprintln(w, "  arcfit demo --out ./arcfit-demo")
 	fmt.Fprintln(w, "  arcfit inspect ./arcfit-demo/observations.csv --sites ./arcfit-demo/sites.csv")
 }
 
