@@ -5,8 +5,7 @@ go 1.26.8
 require (
 	github.com/spf13/pflag v1.1.0
 	gonum.org/v1/gonum v0.17.0
-	// gonum/plot is pinned for the charts (night, fit --chart); no package imports it yet,
-	// so `go mod tidy` would drop it until they land.
+	// gonum/plot draws the charts (cmd/arcfit/chart: night --chart, fit --chart).
 	gonum.org/v1/plot v0.17.0
 )
 

@@ -38,7 +38,7 @@ func demoCommand() *command {
 			demo.ObjectName + "\", from two invented sites on three nights of February 2027, and the sites file. " +
 			"Then runs on them every step arcfit has built so far: inspect, fit (saving the fit to demo-fit.json), " +
 			"predict for the next night and three weeks later from Alder Ridge, and where to point on the night of " +
-			demoNightDate + ". It overwrites only files " +
+			demoNightDate + ", writing the charts (the residuals, the models beyond the arc, the night) into DIR as PNG. It overwrites only files " +
 			"that are the demo's own.",
 		example: "arcfit demo --out ./arcfit-demo",
 		flags:   func() *pflag.FlagSet { return demoFlags(&demoOptions{}, io.Discard) },
@@ -93,12 +93,21 @@ func runDemo(o demoOptions, io streams) error {
 	if err := checkFitOverwrite(fitPath); err != nil {
 		return err
 	}
+	charts := map[string]string{}
+	for _, name := range demoCharts {
+		path := filepath.Join(o.dir, name)
+		if err := checkChartOverwrite(path); err != nil {
+			return err
+		}
+		charts[name] = path
+	}
 	steps := []demoStep{
 		{"inspect", "what was read", []string{"inspect", obsPath, "--sites", sitesPath}},
-		{"fit", "the motion models fitted, compared and saved", []string{"fit", obsPath, "--sites", sitesPath, "--save", fitPath}},
+		{"fit", "the motion models fitted, compared and saved", []string{"fit", obsPath, "--sites", sitesPath, "--save", fitPath,
+			"--chart", charts[demoCharts[0]], "--compare-chart", charts[demoCharts[1]]}},
 		{"predict", "where it will be from Alder Ridge, the next night and three weeks later",
 			[]string{"predict", fitPath, "--at", demoPredictTimes, "--site", "Alder Ridge", "--sites", sitesPath}},
-		{"night", "where to point three weeks after the arc, from Alder Ridge", []string{"night", fitPath, "--date", demoNightDate, "--site", "Alder Ridge", "--sites", sitesPath}},
+		{"night", "where to point three weeks after the arc, from Alder Ridge", []string{"night", fitPath, "--date", demoNightDate, "--site", "Alder Ridge", "--sites", sitesPath, "--chart", charts[demoCharts[2]]}},
 	}
 	cmds := commands()
 	parts := make(map[string]json.RawMessage, len(steps))
@@ -130,7 +139,6 @@ func runDemo(o demoOptions, io streams) error {
 		}
 		fmt.Fprintf(io.Out, "%s\n", b)
 	}
-	fmt.Fprintln(io.Err, "arcfit demo: still to come: the charts, plan and simulate.")
 	return nil
 }
 
@@ -148,6 +156,27 @@ const (
 	demoPredictTimes = "2027-02-09T04:00:00Z,2027-03-01T04:00:00Z"
 	demoNightDate    = "2027-02-28"
 )
+
+// demoCharts are the charts the demo writes: the residuals of the chosen
+// model and the models' growth beyond the arc (fit), and the night plan's
+// search region and altitudes (night).
+var demoCharts = []string{"demo-residuals.png", "demo-models.png", "demo-night.png"}
+
+// checkChartOverwrite refuses to replace an existing file at a demo chart's
+// path that is not a PNG image.
+func checkChartOverwrite(path string) error {
+	data, err := os.ReadFile(path)
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil
+	}
+	if err != nil {
+		return err
+	}
+	if !bytes.HasPrefix(data, []byte("\x89PNG\r\n\x1a\n")) {
+		return usagef("%s exists and is not a chart; not overwriting it (choose another --out)", path)
+	}
+	return nil
+}
 
 // checkFitOverwrite refuses to replace an existing file at the demo's fit
 // path that is not a fit file.

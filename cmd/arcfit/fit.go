@@ -18,6 +18,7 @@ import (
 
 	"arcfit/astro"
 	"arcfit/astro/obs"
+	"arcfit/cmd/arcfit/chart"
 	"arcfit/fit"
 )
 
@@ -43,6 +44,9 @@ type fitOptions struct {
 	at        string  // --at: a time for the comparison's predictions
 	sigma     float64 // --sigma: the ellipse level
 	json, csv bool
+	// chart and compareChart are the --chart (residuals) and
+	// --compare-chart (the models beyond the arc) files, .png or .svg.
+	chart, compareChart string
 }
 
 // newFitCommand returns the fit command.
@@ -104,6 +108,8 @@ func fitFlags(o *fitOptions, stderr io.Writer) *pflag.FlagSet {
 	fs.StringVar(&o.save, "save", "", "write the chosen fit to this `file` (JSON, written whole or not at all)")
 	fs.StringVar(&o.at, "at", "", "UTC `time` (ISO 8601 with Z, or JD and a Julian date) at which to compare the models' predictions")
 	fs.Float64Var(&o.sigma, "sigma", 3, "`level` of the search ellipses, in standard deviations")
+	fs.StringVar(&o.chart, "chart", "", "also write the chosen model's residuals as a chart to this `file`, .png or .svg")
+	fs.StringVar(&o.compareChart, "compare-chart", "", "also write each model's 3-σ region and offset beyond the arc as a chart to this `file`, .png or .svg")
 	fs.BoolVar(&o.json, "json", false, "print one JSON object: the fit, the comparison, the residuals and the observations")
 	fs.BoolVar(&o.csv, "csv", false, "print the residual of every observation as CSV with a header")
 	return fs
@@ -292,6 +298,12 @@ func runFit(o fitOptions, io streams) error {
 	if err := checkSigma(o.sigma); err != nil {
 		return err
 	}
+	if err := checkChartFile("chart", o.chart); err != nil {
+		return err
+	}
+	if err := checkChartFile("compare-chart", o.compareChart); err != nil {
+		return err
+	}
 	var at []astro.JD
 	if o.at != "" {
 		t, err := parseInstant("--at", o.at)
@@ -331,6 +343,24 @@ func runFit(o fitOptions, io streams) error {
 	}
 	if err != nil {
 		return err
+	}
+	if o.chart != "" {
+		fg, err := chart.ResidualsFigure(chart.ComparisonResiduals(a.cmp))
+		if err == nil {
+			err = saveChart("fit", o.chart, fg, io)
+		}
+		if err != nil {
+			return err
+		}
+	}
+	if o.compareChart != "" {
+		fg, err := chart.ComparisonGrowth(a.cmp, site, 0)
+		if err == nil {
+			err = saveChart("fit", o.compareChart, fg, io)
+		}
+		if err != nil {
+			return err
+		}
 	}
 	if o.save != "" {
 		if err := fit.SaveFitFile(o.save, a.saved); err != nil {

@@ -3,7 +3,10 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"encoding/xml"
 	"errors"
+	"image/png"
+	"io"
 	"os"
 	"path/filepath"
 	"strings"
@@ -124,3 +127,49 @@ func TestFitDemoText(t *testing.T) {
 }
 
 func asUsage(err error, ue **usageError) bool { return errors.As(err, ue) }
+
+// fit --chart and --compare-chart write a well-formed SVG and a PNG; an
+// unknown extension is refused before anything is written.
+func TestFitCharts(t *testing.T) {
+	obsPath, sitesPath := demoFiles(t)
+	dir := t.TempDir()
+	svgPath, pngPath := filepath.Join(dir, "res.svg"), filepath.Join(dir, "models.png")
+	code, _, errs := runCmd(t, newFitCommand(), obsPath, "--sites", sitesPath, "--chart", svgPath, "--compare-chart", pngPath)
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	data, err := os.ReadFile(svgPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dec := xml.NewDecoder(bytes.NewReader(data))
+	nText := 0
+	for {
+		tok, err := dec.Token()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			t.Fatalf("residual chart is not well-formed XML: %v", err)
+		}
+		if se, ok := tok.(xml.StartElement); ok && se.Name.Local == "text" {
+			nText++
+		}
+	}
+	if nText < 5 {
+		t.Errorf("residual chart has %d text elements; want labelled axes", nText)
+	}
+	f, err := os.Open(pngPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	if _, err := png.Decode(f); err != nil {
+		t.Errorf("comparison chart: %v", err)
+	}
+	bad := filepath.Join(dir, "res.gif")
+	code, out, errs := runCmd(t, newFitCommand(), obsPath, "--sites", sitesPath, "--chart", bad)
+	if _, err := os.Stat(bad); code != exitUsage || out != "" || lines(errs) != 1 || err == nil {
+		t.Errorf("--chart .gif: exit %d, stdout %q, stderr %q, file written %v; want 2, nothing, one line, no file", code, out, errs, err == nil)
+	}
+}

@@ -19,6 +19,7 @@ import (
 
 	"arcfit/astro"
 	"arcfit/ephem"
+	"arcfit/cmd/arcfit/chart"
 	"arcfit/fit/plan"
 )
 
@@ -36,6 +37,7 @@ type nightOptions struct {
 	sigma        float64 // --sigma
 	allowNearSun bool    // --allow-near-sun
 	nextNights   int     // --next-nights
+	chart        string  // --chart: the chart file to write, .png or .svg
 	changed      map[string]bool
 }
 
@@ -51,7 +53,7 @@ func nightCommand() *command {
 		name:    "night",
 		summary: "the night at a site, and where to point at a target: window, best time, table",
 		usage: "arcfit night [OBS|FIT|--elements FILE [--name NAME]] --date DATE --site SITE [--sites FILE] [--tz ZONE]\n" +
-			"             [--min-alt DEG] [--step DUR] [--fov ARCMIN] [--sigma N] [--allow-near-sun] [--next-nights N] [--json | --csv]",
+			"             [--min-alt DEG] [--step DUR] [--fov ARCMIN] [--sigma N] [--allow-near-sun] [--next-nights N] [--chart FILE] [--json | --csv]",
 		about: "Tells what the sky does on the night that begins on the evening of DATE at the site, from local noon " +
 			"to the next local noon: sunset and sunrise (the Sun's upper limb on the horizon, standard refraction), " +
 			"the civil, nautical and astronomical dusk and dawn (the Sun's centre at −6°, −12° and −18°), the dark " +
@@ -72,11 +74,17 @@ func nightCommand() *command {
 			"equipment. It says so when the prediction lies beyond the fit's validity horizon and when the search " +
 			"region is wider than the field. Times are given in UTC and in local time: the IANA zone of --tz (such as " +
 			"Europe/Paris), or by default the site's local mean solar time. Times are good to about a minute; the " +
-			"real refraction moves rise and set, and a target's crossing of a low limit, by more at high latitude.",
+			"real refraction moves rise and set, and a target's crossing of a low limit, by more at high latitude. " +
+			"--chart FILE writes a chart, PNG or SVG as the file's extension says: with a target, one image of two " +
+			"panels, the search region on the sky at the best time (north up, east left; the 1-, 2- and 3-sigma " +
+			"ellipses, the sampled orbits when there are any, the --fov field, the track through the night, a scale " +
+			"bar) and the altitudes through the night (the target, the Moon, the --min-alt limit and the window, " +
+			"over the twilights shaded); without a target, the Moon's altitude over the twilights.",
 		example: "arcfit night --date 2027-02-20 --site 44.52,-72.80,410 --tz America/New_York\n" +
 			`arcfit night --date 2027-06-21 --site "Alder Ridge" --sites sites.csv --json` + "\n" +
 			`arcfit night demo-fit.json --date 2027-02-09 --site "Alder Ridge" --sites sites.csv --fov 20` + "\n" +
-			`arcfit night --elements elements.csv --name "Demo-1 (invented)" --date 2027-03-01 --site 44.52,-72.80,410 --min-alt 30 --step 1h`,
+			`arcfit night --elements elements.csv --name "Demo-1 (invented)" --date 2027-03-01 --site 44.52,-72.80,410 --min-alt 30 --step 1h` + "\n" +
+			`arcfit night demo-fit.json --date 2027-02-09 --site "Alder Ridge" --sites sites.csv --chart tonight.png`,
 		flags: func() *pflag.FlagSet { return nightFlags(&nightOptions{}, io.Discard) },
 		run: func(args []string, io streams) error {
 			var o nightOptions
@@ -116,6 +124,7 @@ func nightFlags(o *nightOptions, stderr io.Writer) *pflag.FlagSet {
 	fs.Float64Var(&o.sigma, "sigma", plan.DefaultSigma, "`level` of the search ellipse, in standard deviations")
 	fs.BoolVar(&o.allowNearSun, "allow-near-sun", false, "give the pointing table even for a target within 15° of the Sun (dangerous)")
 	fs.IntVar(&o.nextNights, "next-nights", plan.DefaultNextNights, "when the target is not observable, list up to `N` later nights when it is (0: none), searching up to 60 nights ahead")
+	fs.StringVar(&o.chart, "chart", "", "also write a chart to this `file`, .png or .svg: the search region and the altitudes through the night")
 	modelFlags(fs, &o.modelOptions)
 	fs.BoolVar(&o.json, "json", false, "print one JSON object: the target's plan (with a target) and the night's events")
 	fs.BoolVar(&o.csv, "csv", false, "print CSV: the target's rows with a target, else the events (event, time_utc, time_local)")
@@ -169,6 +178,9 @@ func runNight(o nightOptions, io streams) error {
 	if o.json && o.csv {
 		return usagef("--json and --csv exclude each other")
 	}
+	if err := checkChartFile("chart", o.chart); err != nil {
+		return err
+	}
 	if o.file != "" || o.elementsFile != "" {
 		return runNightTarget(o, io)
 	}
@@ -217,11 +229,47 @@ func runNight(o nightOptions, io streams) error {
 	if err != nil {
 		return err
 	}
+	if o.chart != "" {
+		curves, err := chart.SampleNight(nil, n, 0)
+		if err != nil {
+			return err
+		}
+		fg, err := chart.NightSkyFigure(n, curves)
+		if err != nil {
+			return err
+		}
+		if err := saveChart("night", o.chart, fg, io); err != nil {
+			return err
+		}
+	}
 	if warn != "" {
 		fmt.Fprintf(io.Err, "arcfit night: warning: %s\n", warn)
 	}
 	_, err = io.Out.Write(buf.Bytes())
 	return err
+}
+
+// checkChartFile checks the file name of a chart flag (--name) before any
+// work is done: "" (no chart) or a name ending in .png or .svg.
+func checkChartFile(name, path string) error {
+	if path == "" {
+		return nil
+	}
+	if _, err := chart.FormatOf(path); err != nil {
+		return usagef("--%s %q: want a file name ending in .png or .svg", name, path)
+	}
+	return nil
+}
+
+// saveChart writes the chart to path (whole or not at all) and says on
+// stderr that command wrote it; a file that cannot be written is an input
+// error.
+func saveChart(command, path string, fg *chart.Figure, io streams) error {
+	if err := chart.Save(path, fg); err != nil {
+		return inputError(err)
+	}
+	fmt.Fprintf(io.Err, "arcfit %s: wrote %s\n", command, path)
+	return nil
 }
 
 // meanTimeToMinute returns the site's local mean solar time
@@ -596,6 +644,19 @@ func runNightTarget(o nightOptions, io streams) error {
 	}
 	if err != nil {
 		return err
+	}
+	if o.chart != "" {
+		curves, err := chart.SampleNight(target, p.Sky, 0)
+		if err != nil {
+			return err
+		}
+		fg, err := chart.NightFigure(p, curves)
+		if err != nil {
+			return err
+		}
+		if err := saveChart("night", o.chart, fg, io); err != nil {
+			return err
+		}
 	}
 	for _, w := range src.warnings {
 		fmt.Fprintf(io.Err, "arcfit night: warning: %s\n", oneLine(w))
