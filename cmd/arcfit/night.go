@@ -18,8 +18,8 @@ import (
 	"github.com/spf13/pflag"
 
 	"arcfit/astro"
-	"arcfit/ephem"
 	"arcfit/cmd/arcfit/chart"
+	"arcfit/ephem"
 	"arcfit/fit/plan"
 )
 
