@@ -9,9 +9,12 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
+	"sort"
 
 	"github.com/spf13/pflag"
 
+	"arcfit/astro"
+	"arcfit/astro/obs"
 	"arcfit/fit"
 	"arcfit/fit/demo"
 )
@@ -101,13 +104,20 @@ func runDemo(o demoOptions, io streams) error {
 		}
 		charts[name] = path
 	}
+	simPath := filepath.Join(o.dir, demoSimFile)
+	if err := checkSimOverwrite(simPath); err != nil {
+		return err
+	}
 	steps := []demoStep{
-		{"inspect", "what was read", []string{"inspect", obsPath, "--sites", sitesPath}},
+		{"inspect", "what was read", []string{"inspect", obsPath, "--sites", sitesPath}, false},
 		{"fit", "the motion models fitted, compared and saved", []string{"fit", obsPath, "--sites", sitesPath, "--save", fitPath,
-			"--chart", charts[demoCharts[0]], "--compare-chart", charts[demoCharts[1]]}},
+			"--chart", charts[demoCharts[0]], "--compare-chart", charts[demoCharts[1]]}, false},
 		{"predict", "where it will be from Alder Ridge, the next night and three weeks later",
-			[]string{"predict", fitPath, "--at", demoPredictTimes, "--site", "Alder Ridge", "--sites", sitesPath}},
-		{"night", "where to point three weeks after the arc, from Alder Ridge", []string{"night", fitPath, "--date", demoNightDate, "--site", "Alder Ridge", "--sites", sitesPath, "--chart", charts[demoCharts[2]]}},
+			[]string{"predict", fitPath, "--at", demoPredictTimes, "--site", "Alder Ridge", "--sites", sitesPath}, false},
+		{"night", "where to point three weeks after the arc, from Alder Ridge", []string{"night", fitPath, "--date", demoNightDate, "--site", "Alder Ridge", "--sites", sitesPath, "--chart", charts[demoCharts[2]]}, false},
+		{"simulate", "what one more night would buy: a synthetic night from the fitted orbit", []string{"simulate", fitPath,
+			"--site", "Alder Ridge", "--sites", sitesPath, "--nights", demoSimNight, "--per-night", "4", "--cadence", "30m",
+			"--noise", "0.5", "--seed", "3", "--out", simPath}, true},
 	}
 	cmds := commands()
 	parts := make(map[string]json.RawMessage, len(steps))
@@ -116,10 +126,13 @@ func runDemo(o demoOptions, io streams) error {
 		args := st.args[1:]
 		var out bytes.Buffer
 		w := io.Out
-		if o.json {
+		switch {
+		case o.json && !st.noJSON:
 			args = append(args, "--json")
 			w = &out
-		} else {
+		case o.json:
+			w = &out
+		default:
 			if k > 0 {
 				fmt.Fprintln(io.Out)
 			}
@@ -128,9 +141,25 @@ func runDemo(o demoOptions, io streams) error {
 		if err := c.run(args, streams{In: io.In, Out: w, Err: io.Err}); err != nil {
 			return fmt.Errorf("%s step: %w", st.name, err)
 		}
-		if o.json {
+		if o.json && !st.noJSON {
 			parts[st.name] = json.RawMessage(bytes.TrimSpace(out.Bytes()))
 		}
+	}
+	wi, err := demoWhatIf(obsPath, simPath, sitesPath)
+	if err != nil {
+		return fmt.Errorf("what-if step: %w", err)
+	}
+	if o.json {
+		b, err := json.Marshal(wi)
+		if err != nil {
+			return err
+		}
+		parts["what_if"] = b
+	} else {
+		fmt.Fprintf(io.Out, "\n== what one more night buys: the 3-σ region at %s from Alder Ridge\n\n", wi.TimeUTC)
+		fmt.Fprintf(io.Out, "  with the three nights observed:            %7.1f″ × %6.1f″ (%s)\n", wi.Without.SemiMajorArcsec, wi.Without.SemiMinorArcsec, wi.Without.Method)
+		fmt.Fprintf(io.Out, "  with one more night (%s, synthetic): %7.1f″ × %6.1f″ (%s)\n", demoSimNight, wi.With.SemiMajorArcsec, wi.With.SemiMinorArcsec, wi.With.Method)
+		fmt.Fprintf(io.Out, "  (semi-axes; the synthetic night, %s, comes from the fitted orbit with 0.5″ noise)\n", simPath)
 	}
 	if o.json {
 		b, err := json.MarshalIndent(parts, "", "  ")
@@ -142,10 +171,104 @@ func runDemo(o demoOptions, io streams) error {
 	return nil
 }
 
-// demoStep is one command the demo runs.
+// demoStep is one command the demo runs; noJSON marks a command without
+// --json (simulate writes a file).
 type demoStep struct {
 	name, what string
 	args       []string
+	noJSON     bool
+}
+
+// The what-if: one synthetic night, two days after the arc, from the fitted
+// orbit; the demo refits with it and compares the regions three weeks on.
+const (
+	demoSimFile  = "demo-one-more-night.csv"
+	demoSimNight = "2027-02-10"
+	demoWhatIfAt = "2027-03-01T04:00:00Z"
+)
+
+// whatIfRegion is one region of the what-if.
+type whatIfRegion struct {
+	SemiMajorArcsec float64 `json:"semi_major_arcsec"`
+	SemiMinorArcsec float64 `json:"semi_minor_arcsec"`
+	Method          string  `json:"region_method"`
+}
+
+// whatIf is the demo's last step: the region at demoWhatIfAt from the
+// observed nights alone and with the synthetic night added.
+type whatIf struct {
+	TimeUTC string       `json:"time_utc"`
+	Without whatIfRegion `json:"without"`
+	With    whatIfRegion `json:"with"`
+}
+
+// demoWhatIf fits the orbit to the observations, and to them with the
+// synthetic night appended, and returns both 3-σ regions at demoWhatIfAt
+// seen from Alder Ridge.
+func demoWhatIf(obsPath, simPath, sitesPath string) (*whatIf, error) {
+	sites, err := obs.ReadSitesFile(sitesPath)
+	if err != nil {
+		return nil, err
+	}
+	real, err := obs.ReadFile(obsPath, obs.ReadOptions{Sites: sites})
+	if err != nil {
+		return nil, err
+	}
+	sim, err := obs.ReadFile(simPath, obs.ReadOptions{Sites: sites})
+	if err != nil {
+		return nil, err
+	}
+	both := *real
+	both.Obs = append(append([]obs.Observation{}, real.Obs...), sim.Obs...)
+	sort.SliceStable(both.Obs, func(i, j int) bool { return both.Obs[i].Time.Sub(both.Obs[j].Time) < 0 })
+	at, err := astro.ParseISO8601(demoWhatIfAt)
+	if err != nil {
+		return nil, err
+	}
+	site := sites["Alder Ridge"]
+	region := func(set *obs.Set) (whatIfRegion, error) {
+		tr, err := fit.NewTrack(set, sites)
+		if err != nil {
+			return whatIfRegion{}, err
+		}
+		of, err := fit.FitOrbit(tr, fit.Settings{})
+		if err != nil {
+			return whatIfRegion{}, err
+		}
+		p, err := of.Predict(at, &site)
+		if err != nil {
+			return whatIfRegion{}, err
+		}
+		e := p.Ellipse(3)
+		return whatIfRegion{SemiMajorArcsec: e.SemiMajorArcsec, SemiMinorArcsec: e.SemiMinorArcsec, Method: p.Method}, nil
+	}
+	w := &whatIf{TimeUTC: demoWhatIfAt}
+	if w.Without, err = region(real); err != nil {
+		return nil, err
+	}
+	if w.With, err = region(&both); err != nil {
+		return nil, err
+	}
+	return w, nil
+}
+
+// simMarker starts every file arcfit simulate writes.
+const simMarker = "# SYNTHETIC observations made by arcfit simulate"
+
+// checkSimOverwrite refuses to replace an existing file at the demo's
+// simulation path that simulate did not write.
+func checkSimOverwrite(path string) error {
+	data, err := os.ReadFile(path)
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil
+	}
+	if err != nil {
+		return err
+	}
+	if !bytes.HasPrefix(data, []byte(simMarker)) {
+		return usagef("%s exists and is not a simulated file; not overwriting it (choose another --out)", path)
+	}
+	return nil
 }
 
 // The demo's fit file, prediction times and night: the object was last seen

@@ -37,8 +37,8 @@ func TestDemoWritesAndInspects(t *testing.T) {
 		}
 	}
 	entries, _ := os.ReadDir(dir)
-	if len(entries) != 3+len(demoCharts) {
-		t.Errorf("demo: %d entries in %s, want the 2 files, the fit file and %d charts (no temporary left)", len(entries), dir, len(demoCharts))
+	if len(entries) != 4+len(demoCharts) {
+		t.Errorf("demo: %d entries in %s, want the 2 files, the fit file, the simulated night and %d charts (no temporary left)", len(entries), dir, len(demoCharts))
 	}
 	for _, name := range demoCharts {
 		f, err := os.Open(filepath.Join(dir, name))
