@@ -201,7 +201,7 @@ func Compare(tr *Track, models []Model, s Settings, at []astro.JD, site *astro.S
 		return nil, firstErr
 	}
 	c.Solution = c.Rows[best].Solution
-	if k, why := chooseKepler(c, best); k != best {
+	if k, why := chooseKepler(c, tr, best); k != best {
 		c.Reason = why + "; among the sky-plane models " + c.Reason
 		best = k
 		c.Orbit = c.Rows[k].Orbit

@@ -32,6 +32,10 @@ type OrbitFit struct {
 	MonteCarlo orbit.MonteCarloSettings
 	// NoSampling turns the Monte Carlo regions off (linear propagation only).
 	NoSampling bool
+	// RangingOnly reports an orbit model made from the ranging cloud alone
+	// (an arc of fewer than three nights the correction could not settle):
+	// every prediction is sampled.
+	RangingOnly bool
 
 	// samples caches the sampled orbits by method (they do not depend on
 	// the prediction time).
@@ -41,7 +45,10 @@ type OrbitFit struct {
 // FitOrbit determines the two-body orbit of the track's observations
 // ([orbit.Determine]: Gauss's method or, for short arcs, the search over the
 // topocentric distance, then the differential correction with the outlier
-// rule of the sky-plane fit; s.KeepAll and s.RejectChi2 apply).
+// rule of the sky-plane fit; s.KeepAll and s.RejectChi2 apply). On an arc of
+// fewer than three nights where the correction cannot settle on one orbit,
+// the model is the cloud of orbits consistent with the data, sampled by
+// statistical ranging (RangingOnly; see rangingFit).
 //
 // Errors: a track without its observation set (loaded from a fit file), and
 // those of orbit.NewObservations and orbit.Determine, which say what would
@@ -56,6 +63,11 @@ func FitOrbit(tr *Track, s Settings) (*OrbitFit, error) {
 	}
 	sol, err := orbit.Determine(obs, orbit.Options{KeepAll: s.KeepAll, RejectChi2: s.RejectChi2})
 	if err != nil {
+		if ch := orbit.ChooseSampling(obs, obs[len(obs)-1].Geo.UTC, false); ch.Method == orbit.SamplingRanging {
+			if of, rerr := rangingFit(obs, warns, err); rerr == nil {
+				return of, nil
+			}
+		}
 		return nil, err
 	}
 	return newOrbitFit(sol, obs, warns)
@@ -106,6 +118,9 @@ func (f *OrbitFit) Predict(utc astro.JD, site *astro.Site) (Prediction, error) {
 	method := orbit.SamplingCovariance
 	if f.Obs != nil {
 		method = orbit.ChooseSampling(f.Obs, utc, true).Method
+	}
+	if f.RangingOnly && f.Obs != nil {
+		method = orbit.SamplingRanging
 	}
 	if method == orbit.SamplingLinear {
 		return lin, nil

@@ -173,7 +173,7 @@ func zeroNaN(x float64) float64 {
 //
 // Why prefer it: a two-body orbit is the physical model, so it extrapolates
 // beyond the arc where a polynomial in time does not (see [Horizon]).
-func chooseKepler(c *Comparison, sky int) (int, string) {
+func chooseKepler(c *Comparison, tr *Track, sky int) (int, string) {
 	k := -1
 	for i, r := range c.Rows {
 		if r.Spec.Kind == KindKepler {
@@ -188,6 +188,9 @@ func chooseKepler(c *Comparison, sky int) (int, string) {
 		return sky, "kepler not used: " + oneLineReason(kr.Err)
 	}
 	sol := kr.Orbit.Solution
+	if kr.Orbit.RangingOnly && tr.NumNights < 2 {
+		return sky, "kepler not used: one night cannot determine an orbit (its region, from sampled orbits, is given with --model kepler); a second night would help"
+	}
 	if sky < 0 {
 		return sky, ""
 	}
