@@ -1,6 +1,9 @@
 package astro
 
-import "errors"
+import (
+	"errors"
+	"strconv"
+)
 
 // Sentinel errors, wrapped by the errors the parsers and conversions return;
 // test for them with errors.Is.
@@ -31,12 +34,14 @@ type FieldError struct {
 	Err    error  // ErrSyntax, ErrRange, …
 }
 
-// Error returns "want …, got "…"".
+// Error returns "want …, got "…"", one line: Got is quoted as a Go string
+// (strconv.Quote), so a control character such as a carriage return shows
+// as an escape, never as a line break.
 func (e *FieldError) Error() string {
 	if e.Got == "" {
 		return "want " + e.Want
 	}
-	return "want " + e.Want + `, got "` + e.Got + `"`
+	return "want " + e.Want + ", got " + strconv.Quote(e.Got)
 }
 
 // Unwrap returns the sentinel the error wraps.

@@ -23,11 +23,7 @@ func (p *isoParser) fail(off int, want string, err error) error {
 	if off < len(p.s) {
 		r, n := utf8.DecodeRuneInString(p.s[off:])
 		if r >= utf8.RuneSelf || r < ' ' {
-			got = p.s[off : off+n]
-			if r == utf8.RuneError && n == 1 {
-				got = strconv.Quote(p.s[off : off+1])
-				got = got[1 : len(got)-1]
-			}
+			got = p.s[off : off+n] // a byte that is not UTF-8 too: Error quotes it
 		} else {
 			end := off
 			for end < len(p.s) && end-off < 16 && p.s[end] >= ' ' && p.s[end] < utf8.RuneSelf {

@@ -170,6 +170,9 @@ func parseSexagesimal(s string) (sexagesimal, error) {
 	case 3:
 		p.value = (fields[0]*3600 + fields[1]*60 + fields[2]) / 3600
 	}
+	if math.IsInf(p.value, 0) { // a leading field near the float64 limit overflows ×60
+		return p, &FieldError{Offset: p.start, Want: "a number of reasonable size", Got: s[p.start:end], Err: ErrRange}
+	}
 	return p, nil
 }
 
@@ -180,8 +183,7 @@ func syntaxAt(s string, i int, want string) *FieldError {
 	if i < len(s) {
 		r, size := utf8.DecodeRuneInString(s[i:])
 		if r == utf8.RuneError && size <= 1 {
-			got = strconv.Quote(s[i : i+1])
-			got = got[1 : len(got)-1]
+			got = s[i : i+1] // a byte that is not UTF-8: FieldError.Error quotes it
 		} else {
 			got = string(r)
 		}

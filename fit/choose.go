@@ -44,8 +44,8 @@ type ModelRow struct {
 	// Solution is the model's fit of the whole track (nil when Err is set,
 	// and for the kepler row, whose fit is Orbit).
 	Solution *Solution
-	// Orbit is the kepler row's two-body orbit (nil otherwise, or when Err
-	// is set).
+	// Orbit is the kepler row's two-body orbit or the nbody row's perturbed
+	// one (nil otherwise, or when Err is set).
 	Orbit *OrbitFit
 }
 
@@ -67,7 +67,7 @@ type Comparison struct {
 	HorizonRule       string
 	// Notes are remarks on the comparison (skipped models, failed folds).
 	Notes []string
-	// Orbit is the two-body orbit when the chosen model is kepler (Solution
+	// Orbit is the orbit when the chosen model is kepler or nbody (Solution
 	// is then the best sky-plane model); nil otherwise.
 	Orbit *OrbitFit
 }
@@ -133,7 +133,17 @@ var ErrNoModel = errors.New("fit: no model could be fitted")
 //     tie and go to the simpler.
 //
 // Comparison.Reason says which rule decided, with the numbers, and whether
-// BIC agrees. Models that cannot be fitted keep a row with Err set. When no
+// BIC agrees.
+//
+// The orbit models come after: the kepler row replaces the sky-plane choice
+// when it fits the data ([chooseKepler]); then, when the planets matter —
+// the arc and the horizon of the predictions at span more than
+// [NBodySpanDays], or the orbit integrated with the planets through the arc
+// and to the predictions passes within 0.05 au of the Earth or inside a
+// planet's Hill sphere — the perturbed orbit (the nbody row, corrected from
+// the kepler row's orbit) is fitted and replaces the choice when it passes
+// the same data tests, the reason saying why. An nbody model in models is
+// always fitted (and chosen only by that rule). Models that cannot be fitted keep a row with Err set. When no
 // model can be fitted Compare returns the error of the simplest (a
 // *TooFewError for too few observations says which models the data allow).
 //
@@ -155,10 +165,17 @@ func Compare(tr *Track, models []Model, s Settings, at []astro.JD, site *astro.S
 	jinv := planeJacobians(tr) // shared by every model's fit and folds
 	var firstErr error
 	firstErrParams := math.MaxInt
+	var kepler *OrbitFit
+	withNBody, withKepler := false, false
 	for _, m := range models {
 		if m.Kind == KindKepler {
 			c.Rows = append(c.Rows, keplerRow(tr, s))
+			kepler, withKepler = c.Rows[len(c.Rows)-1].Orbit, true
 			continue
+		}
+		if m.Kind == KindNBody {
+			withNBody = true
+			continue // fitted below, from the kepler row's orbit
 		}
 		row := ModelRow{
 			Model: m.Name(), Spec: m, NumParams: m.NumMotionParams(),
@@ -193,6 +210,16 @@ func Compare(tr *Track, models []Model, s Settings, at []astro.JD, site *astro.S
 		row.CVNormRMS = row.CV.NormRMS
 		c.Rows = append(c.Rows, row)
 	}
+	// The perturbed orbit: fitted when asked for, or when the auto rule
+	// says the planets matter (planetsMatter) for an orbit the comparison
+	// has.
+	var need nbodyNeed
+	if withKepler || withNBody {
+		need = planetsMatter(tr, kepler, at)
+		if withNBody || need.need {
+			c.Rows = append(c.Rows, nbodyRowFor(tr, s, kepler))
+		}
+	}
 	best := chooseRow(c)
 	if best < 0 {
 		if firstErr == nil {
@@ -201,8 +228,20 @@ func Compare(tr *Track, models []Model, s Settings, at []astro.JD, site *astro.S
 		return nil, firstErr
 	}
 	c.Solution = c.Rows[best].Solution
+	sky := best
 	if k, why := chooseKepler(c, tr, best); k != best {
 		c.Reason = why + "; among the sky-plane models " + c.Reason
+		best = k
+		c.Orbit = c.Rows[k].Orbit
+	} else if why != "" {
+		c.Notes = append(c.Notes, why)
+	}
+	if k, why := chooseNBody(c, tr, best, sky, need); k != best {
+		if c.Orbit != nil {
+			c.Reason = why + "; " + c.Reason
+		} else {
+			c.Reason = why + "; among the sky-plane models " + c.Reason
+		}
 		best = k
 		c.Orbit = c.Rows[k].Orbit
 	} else if why != "" {

@@ -430,7 +430,7 @@ func MarshalFitFile(f *SavedFit) ([]byte, error) {
 			return nil, err
 		}
 		ff.Orbit = o
-		ff.About = "arcfit fit file: a two-body orbit (orbit) and the best sky-plane motion model fitted to the observations in source.file; read by arcfit predict and arcfit night"
+		ff.About = orbitAbout(f.Orbit)
 	}
 	if math.IsNaN(s.Chi2) || math.IsInf(s.Chi2, 0) {
 		return nil, errors.New("fit: χ² is not finite")
@@ -668,10 +668,13 @@ func jsonKind(t reflect.Type) string {
 }
 
 // Ranges the reader accepts. Julian dates: 1800–2200, the span the time
-// scales support (design.md).
+// scales support (design.md), from 1800 January 1 0h to the end of 2200 (2201
+// January 1 0h), the span the observation reader (astro/obs) and the
+// ephemerides (ephem.TableLastJD) take, so that a fit of any observations
+// that read is saved and read back.
 const (
 	fitFileMinJD = 2378496.5 // 1800-01-01 0h
-	fitFileMaxJD = 2524593.5 // 2200-01-01 0h
+	fitFileMaxJD = 2524958.5 // 2201-01-01 0h
 )
 
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
@@ -679,7 +682,7 @@ func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 // jdFrom checks a two-part date and returns it on scale sc.
 func (r *fitFileReader) jdFrom(j jdJSON, field string, sc astro.Scale) (astro.JD, error) {
 	if !finite(j.Day) || !finite(j.Frac) || j.Day+j.Frac < fitFileMinJD || j.Day+j.Frac > fitFileMaxJD {
-		return astro.JD{}, r.fail(field, "a two-part Julian date between 1800 and 2200", fmt.Sprintf("%g + %g", j.Day, j.Frac), ErrFitFile)
+		return astro.JD{}, r.fail(field, "a two-part Julian date between 1800 and 2200", strconv.FormatFloat(j.Day, 'f', -1, 64)+" + "+strconv.FormatFloat(j.Frac, 'f', -1, 64), ErrFitFile)
 	}
 	return astro.JD{Day: j.Day, Frac: j.Frac, Scale: sc}, nil
 }

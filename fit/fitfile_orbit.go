@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strconv"
 
 	"arcfit/astro"
 	"arcfit/ephem"
@@ -52,11 +53,14 @@ func (f *OrbitFit) ElementsRecords() (el, sigma ElementsJSON) {
 	return el, sigma
 }
 
-// orbitJSON is the fit file's "orbit" object: the two-body orbit chosen as
-// the model, as a state at an epoch with its covariance; the elements, their
-// σ and the class are for people (the reader recomputes them from the state).
+// orbitJSON is the fit file's "orbit" object: the orbit chosen as the
+// model (kepler or nbody), as a state at an epoch with its covariance and
+// its dynamics; the elements, their σ and the class are for people (the
+// reader recomputes them from the state). A file without "dynamics" (written
+// before the perturbed orbit) is read as two-body motion.
 type orbitJSON struct {
 	EpochTDB       jdJSON         `json:"epoch_tdb"`
+	Dynamics       string         `json:"dynamics"`
 	PositionAU     [3]float64     `json:"position_au"`
 	VelocityAUDay  [3]float64     `json:"velocity_au_per_day"`
 	Frame          string         `json:"frame"`
@@ -80,6 +84,18 @@ type orbitJSON struct {
 	ElementsSigma  ElementsJSON   `json:"elements_sigma"`
 	Class          string         `json:"class"`
 	OrbitResiduals []orbitResJSON `json:"residuals"`
+	// Encounters are the close approaches the integration through the arc
+	// found (nbody only).
+	Encounters []encounterRecJSON `json:"encounters,omitempty"`
+}
+
+// encounterRecJSON is a close approach as the fit file keeps it.
+type encounterRecJSON struct {
+	Body       string  `json:"body"`
+	TDB        jdJSON  `json:"tdb"`
+	DistanceAU float64 `json:"distance_au"`
+	HillAU     float64 `json:"hill_au"`
+	AtEnd      bool    `json:"at_end"`
 }
 
 // orbitResJSON is one observation's residual against the orbit.
@@ -94,8 +110,12 @@ type orbitResJSON struct {
 	Used       bool    `json:"used"`
 }
 
-// orbitFrame names the frame of the orbit's state in the fit file.
-const orbitFrame = "heliocentric ICRS axes, au and au/day, TDB, two-body motion with GM = k²"
+// orbitFrame and orbitFrameNBody name the frame of the orbit's state in the
+// fit file, for two-body and for perturbed motion.
+const (
+	orbitFrame      = "heliocentric ICRS axes, au and au/day, TDB, two-body motion with GM = k²"
+	orbitFrameNBody = "heliocentric ICRS axes, au and au/day, TDB, the osculating state of an orbit moved by the Sun, the eight planets and the Moon (arcfit's n-body integration)"
+)
 
 // marshalOrbit returns the fit file's orbit object of f.
 func marshalOrbit(f *OrbitFit) (*orbitJSON, error) {
@@ -109,6 +129,7 @@ func marshalOrbit(f *OrbitFit) (*orbitJSON, error) {
 		PositionAU:    [3]float64{s.State.Pos.X, s.State.Pos.Y, s.State.Pos.Z},
 		VelocityAUDay: [3]float64{s.State.Vel.X, s.State.Vel.Y, s.State.Vel.Z},
 		Frame:         orbitFrame,
+		Dynamics:      orbit.MotionName(s.State.Motion),
 		Chi2:          s.Chi2, DoF: s.DoF, Chi2DoF: s.Chi2DoF, Scaled: s.Scaled, RMSArcsec: s.RMSArcsec,
 		NumUsed: s.NumUsed, Cond: optional(s.Cond), Start: s.Start, H: optional(s.H), HSigma: optional(s.HSigma),
 		G: s.G, NumMag: s.NumMag, FirstUTC: toJD(s.FirstUTC), LastUTC: toJD(s.LastUTC),
@@ -125,6 +146,15 @@ func marshalOrbit(f *OrbitFit) (*orbitJSON, error) {
 			}
 			o.Covariance[i][j] = v
 		}
+	}
+	if s.State.Motion != nil {
+		o.Frame = orbitFrameNBody
+	}
+	for _, e := range s.Encounters {
+		if !finite(e.DistanceAU) || !finite(e.HillAU) {
+			return nil, errors.New("fit: an encounter distance is not finite")
+		}
+		o.Encounters = append(o.Encounters, encounterRecJSON{Body: e.Body, TDB: toJD(e.TDB), DistanceAU: e.DistanceAU, HillAU: e.HillAU, AtEnd: e.AtEnd})
 	}
 	for _, r := range s.Residuals {
 		o.OrbitResiduals = append(o.OrbitResiduals, orbitResJSON{Index: r.Index, Line: r.Line, UTC: toJD(r.UTC),
@@ -149,8 +179,12 @@ func (r *fitFileReader) buildOrbit(o *orbitJSON) (*OrbitFit, error) {
 			return nil, r.fail(fmt.Sprintf("orbit state component %d", i), "a finite number", fmt.Sprint(v), ErrFitFile)
 		}
 	}
+	motion, err := orbit.ParseMotion(o.Dynamics)
+	if err != nil {
+		return nil, r.fail("orbit.dynamics", fmt.Sprintf("%q or %q", orbit.DynamicsTwoBody, orbit.DynamicsNBody), strconv.Quote(o.Dynamics), ErrFitFile)
+	}
 	st := orbit.State{Epoch: epoch, Pos: r3.Vec{X: o.PositionAU[0], Y: o.PositionAU[1], Z: o.PositionAU[2]},
-		Vel: r3.Vec{X: o.VelocityAUDay[0], Y: o.VelocityAUDay[1], Z: o.VelocityAUDay[2]}}
+		Vel: r3.Vec{X: o.VelocityAUDay[0], Y: o.VelocityAUDay[1], Z: o.VelocityAUDay[2]}, Motion: motion}
 	if r3.Norm(st.Pos) < 0.001 || r3.Norm(st.Pos) > 1e5 {
 		return nil, r.fail("orbit.position_au", "a heliocentric position between 0.001 and 1e5 au", fmt.Sprint(r3.Norm(st.Pos)), ErrFitFile)
 	}
@@ -190,6 +224,16 @@ func (r *fitFileReader) buildOrbit(o *orbitJSON) (*OrbitFit, error) {
 	sol := &orbit.Solution{State: st, Cov: cov, Chi2: o.Chi2, DoF: o.DoF, Chi2DoF: o.Chi2DoF, Scaled: o.Scaled,
 		RMSArcsec: o.RMSArcsec, NumUsed: o.NumUsed, Cond: valueOr(o.Cond), Start: o.Start, H: valueOr(o.H),
 		HSigma: valueOr(o.HSigma), G: o.G, NumMag: o.NumMag, FirstUTC: first, LastUTC: last, Notes: o.Notes}
+	for i, e := range o.Encounters {
+		tdb, err := r.jdFrom(e.TDB, fmt.Sprintf("orbit.encounters[%d].tdb", i), astro.TDB)
+		if err != nil {
+			return nil, err
+		}
+		if !finite(e.DistanceAU) || !(e.DistanceAU >= 0) || !finite(e.HillAU) || e.Body == "" {
+			return nil, r.fail(fmt.Sprintf("orbit.encounters[%d]", i), "a body and finite distances ≥ 0", fmt.Sprint(e.DistanceAU), ErrFitFile)
+		}
+		sol.Encounters = append(sol.Encounters, orbit.Encounter{Body: e.Body, TDB: tdb, DistanceAU: e.DistanceAU, HillAU: e.HillAU, AtEnd: e.AtEnd})
+	}
 	for i, rr := range o.OrbitResiduals {
 		utc, err := r.jdFrom(rr.UTC, fmt.Sprintf("orbit.residuals[%d].utc", i), astro.UTC)
 		if err != nil {
@@ -203,6 +247,15 @@ func (r *fitFileReader) buildOrbit(o *orbitJSON) (*OrbitFit, error) {
 		return nil, r.fail("orbit", "a state that has elements", err.Error(), ErrFitFile)
 	}
 	return of, nil
+}
+
+// orbitAbout is the fit file's "about" line when it holds an orbit.
+func orbitAbout(f *OrbitFit) string {
+	what := "a two-body orbit"
+	if f.Solution.State.Motion != nil {
+		what = "an orbit perturbed by the planets (nbody)"
+	}
+	return "arcfit fit file: " + what + " (orbit) and the best sky-plane motion model fitted to the observations in source.file; read by arcfit predict and arcfit night"
 }
 
 // orbitElementsOf is a helper for printing: the elements of an orbit fit

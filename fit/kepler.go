@@ -10,9 +10,10 @@ import (
 	"arcfit/fit/orbit"
 )
 
-// OrbitFit is the two-body orbit model fitted to a track's observations: the
-// differentially corrected orbit, its elements with their uncertainties and
-// its class.
+// OrbitFit is an orbit model fitted to a track's observations — the
+// two-body orbit (model kepler) or the orbit perturbed by the planets
+// (model nbody, Solution.State.Motion set): the differentially corrected
+// orbit, its elements with their uncertainties and its class.
 type OrbitFit struct {
 	// Solution is the corrected orbit with its covariance and residuals.
 	Solution *orbit.Solution
@@ -40,6 +41,9 @@ type OrbitFit struct {
 	// samples caches the sampled orbits by method (they do not depend on
 	// the prediction time).
 	samples map[string]*orbit.OrbitSamples
+	// nb caches the perturbed orbit's integrations (nil for two-body
+	// motion); see nbodypredict.go.
+	nb *nbodyCache
 }
 
 // FitOrbit determines the two-body orbit of the track's observations
@@ -54,6 +58,11 @@ type OrbitFit struct {
 // those of orbit.NewObservations and orbit.Determine, which say what would
 // help (more nights, a longer arc).
 func FitOrbit(tr *Track, s Settings) (*OrbitFit, error) {
+	return fitOrbitMotion(tr, s, nil)
+}
+
+// fitOrbitMotion is [FitOrbit] with the dynamics m (nil: two-body motion).
+func fitOrbitMotion(tr *Track, s Settings, m orbit.Motion) (*OrbitFit, error) {
 	if tr == nil || tr.Set == nil {
 		return nil, errors.New("fit: the orbit needs the observations themselves, not a saved track")
 	}
@@ -61,10 +70,13 @@ func FitOrbit(tr *Track, s Settings) (*OrbitFit, error) {
 	if err != nil {
 		return nil, err
 	}
-	sol, err := orbit.Determine(obs, orbit.Options{KeepAll: s.KeepAll, RejectChi2: s.RejectChi2})
+	sol, err := orbit.Determine(obs, orbit.Options{KeepAll: s.KeepAll, RejectChi2: s.RejectChi2, Motion: m})
 	if err != nil {
 		if ch := orbit.ChooseSampling(obs, obs[len(obs)-1].Geo.UTC, false); ch.Method == orbit.SamplingRanging {
 			if of, rerr := rangingFit(obs, warns, err); rerr == nil {
+				if m != nil {
+					of.setMotion(m)
+				}
 				return of, nil
 			}
 		}
@@ -98,9 +110,16 @@ func newOrbitFit(sol *orbit.Solution, obs []orbit.Observation, warns []string) (
 // from a fit file has no observations, so it samples from its covariance
 // and keeps the linear region when the two agree. A sampling that fails
 // leaves the linear region.
+//
+// A perturbed orbit (model nbody) predicts from the integration of the
+// orbit and of its sampled orbits to an instant near utc, then by a short
+// two-body step (see [OrbitFit.Prepare] and nbodypredict.go).
 func (f *OrbitFit) Predict(utc astro.JD, site *astro.Site) (Prediction, error) {
 	if utc.Scale != astro.UTC {
 		return Prediction{}, fmt.Errorf("fit: prediction time must be UTC, got %v", utc.Scale)
+	}
+	if f.Solution.State.Motion != nil {
+		return f.predictNBody(utc, site)
 	}
 	var st *astro.Site
 	if site != nil {
@@ -137,9 +156,16 @@ func (f *OrbitFit) Predict(utc astro.JD, site *astro.Site) (Prediction, error) {
 	if err != nil {
 		return lin, nil
 	}
+	return sampledPrediction(lin, sp, r, method), nil
+}
+
+// sampledPrediction returns the prediction of the sampled region r drawn by
+// method, or the linear one lin (of sp) when the orbits were drawn from the
+// covariance and their region agrees with it ([orbit.CompareLinear]).
+func sampledPrediction(lin Prediction, sp orbit.SkyPrediction, r *orbit.SampledRegion, method string) Prediction {
 	if method == orbit.SamplingCovariance {
 		if differ, _ := orbit.CompareLinear(sp.RA, sp.Dec, sp.CovArcsec2, r); !differ {
-			return lin, nil // the linear answer holds
+			return lin // the linear answer holds
 		}
 	}
 	p := lin
@@ -148,7 +174,7 @@ func (f *OrbitFit) Predict(utc astro.JD, site *astro.Site) (Prediction, error) {
 		p.DeltaAU = r.DeltaAU
 	}
 	p.Samples, p.SampleWeights = r.Offsets()
-	return p, nil
+	return p
 }
 
 // sampled returns the orbits sampled by method, drawing them once.
@@ -168,6 +194,11 @@ func (f *OrbitFit) sampled(method string) (*orbit.OrbitSamples, error) {
 	}
 	if err != nil {
 		return nil, err
+	}
+	if m := f.Solution.State.Motion; m != nil {
+		for i := range s.States {
+			s.States[i].Motion = m // ranging draws two-body orbits over the arc
+		}
 	}
 	if f.samples == nil {
 		f.samples = map[string]*orbit.OrbitSamples{}

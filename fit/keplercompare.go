@@ -32,6 +32,31 @@ func keplerRow(tr *Track, s Settings) ModelRow {
 	return row
 }
 
+// orbitRow returns the comparison row of the orbit fit of (err when it
+// could not be fitted) for the model m, cross-validated with the fold fit.
+func orbitRow(tr *Track, m Model, of *OrbitFit, err error, fold foldFit) ModelRow {
+	row := ModelRow{Model: m.Name(), Spec: m, NumParams: 6, RMSArcsec: math.NaN(), Chi2DoF: math.NaN(), BIC: math.NaN(),
+		CVErrorArcsec: math.NaN(), CVSEArcsec: math.NaN(), CVNormRMS: math.NaN()}
+	if err != nil {
+		row.Err = err.Error()
+		return row
+	}
+	sol := of.Solution
+	row.Orbit = of
+	row.RMSArcsec = sol.RMSArcsec
+	row.Chi2DoF = sol.Chi2DoF
+	if n := 2 * sol.NumUsed; n > 0 {
+		row.BIC = sol.Chi2 + 6*math.Log(float64(n))
+	}
+	row.CV = orbitCrossValidate(tr, of, fold)
+	row.CVErrorArcsec, row.CVSEArcsec, row.CVNormRMS = row.CV.RMSArcsec, row.CV.SEArcsec, row.CV.NormRMS
+	return row
+}
+
+// foldFit fits the orbit of one cross-validation fold (the observations
+// with a night's Used cleared).
+type foldFit func(obs []orbit.Observation) (*orbit.Solution, error)
+
 // keplerCrossValidate leaves out each night in turn, determines the orbit
 // from the others ([orbit.Determine], as for the whole track) and predicts
 // the observations of the night left out: the misses and their normalised
@@ -40,6 +65,16 @@ func keplerRow(tr *Track, s Settings) ModelRow {
 // standard error from the spread of the folds' mean squares, the normalised
 // RMS). With fewer than [MinCVNights] nights it is not available (NaN).
 func keplerCrossValidate(tr *Track, of *OrbitFit, s Settings) CrossValidation {
+	return orbitCrossValidate(tr, of, func(obs []orbit.Observation) (*orbit.Solution, error) {
+		return orbit.Determine(obs, orbit.Options{KeepAll: true})
+	})
+}
+
+// orbitCrossValidate is [keplerCrossValidate] with the fold's orbit fitted
+// by fold; the fold's predictions of the night left out come from
+// orbit.Solution.PredictAll for each site (one integration per site for a
+// perturbed orbit).
+func orbitCrossValidate(tr *Track, of *OrbitFit, fold foldFit) CrossValidation {
 	cv := CrossValidation{RMSArcsec: math.NaN(), SEArcsec: math.NaN(), NormRMS: math.NaN(), ObsScale: math.NaN(),
 		NormMS: math.NaN(), DoF: math.NaN(), PValue: math.NaN(), ModelErrorArcsec: math.NaN()}
 	night := map[int]int{}
@@ -83,23 +118,19 @@ func keplerCrossValidate(tr *Track, of *OrbitFit, s Settings) CrossValidation {
 				left = append(left, i)
 			}
 		}
-		fold, err := orbit.Determine(obs, orbit.Options{KeepAll: true})
+		fsol, err := fold(obs)
 		if err != nil {
 			cv.Failed = append(cv.Failed, k)
 			cv.Notes = append(cv.Notes, fmt.Sprintf("night %d: the orbit of the other nights could not be determined: %v", k+1, err))
 			continue
 		}
+		preds := foldPredictions(fsol, of.Obs, left, tr)
 		var foldSq float64
 		var foldN int
-		for _, i := range left {
+		for j, i := range left {
 			o := of.Obs[i]
-			var site *astro.Site
-			if o.Site != "" {
-				st := tr.Sites[o.Site]
-				site = &st
-			}
-			p, err := fold.Predict(o.Geo.UTC, site)
-			if err != nil {
+			p, ok := preds[j]
+			if !ok {
 				continue
 			}
 			dE, dN := orbit.Residual(o.RA, o.Dec, astro.UnitVector(p.RA, p.Dec))
@@ -144,6 +175,52 @@ func keplerCrossValidate(tr *Track, of *OrbitFit, s Settings) CrossValidation {
 		cv.SEArcsec = math.Sqrt(v/float64(len(foldMS))) / (2 * cv.RMSArcsec)
 	}
 	return cv
+}
+
+// foldPredictions predicts the observations left (indices into obs) with
+// the fold's orbit fsol: Solution.Predict one by one for a two-body orbit,
+// Solution.PredictAll per site for a perturbed one. A prediction that fails
+// is missing from the map.
+func foldPredictions(fsol *orbit.Solution, obs []orbit.Observation, left []int, tr *Track) map[int]orbit.SkyPrediction {
+	out := map[int]orbit.SkyPrediction{}
+	siteOf := func(o orbit.Observation) *astro.Site {
+		if o.Site == "" {
+			return nil
+		}
+		st := tr.Sites[o.Site]
+		return &st
+	}
+	if fsol.State.Motion == nil {
+		for j, i := range left {
+			if p, err := fsol.Predict(obs[i].Geo.UTC, siteOf(obs[i])); err == nil {
+				out[j] = p
+			}
+		}
+		return out
+	}
+	bySite := map[string][]int{}
+	var order []string
+	for j, i := range left {
+		if _, ok := bySite[obs[i].Site]; !ok {
+			order = append(order, obs[i].Site)
+		}
+		bySite[obs[i].Site] = append(bySite[obs[i].Site], j)
+	}
+	for _, name := range order {
+		js := bySite[name]
+		ts := make([]astro.JD, len(js))
+		for k, j := range js {
+			ts[k] = obs[left[j]].Geo.UTC
+		}
+		ps, err := fsol.PredictAll(ts, siteOf(obs[left[js[0]]]))
+		if err != nil {
+			continue
+		}
+		for k, j := range js {
+			out[j] = ps[k]
+		}
+	}
+	return out
 }
 
 func sq(x float64) float64 { return x * x }
@@ -195,22 +272,34 @@ func chooseKepler(c *Comparison, tr *Track, sky int) (int, string) {
 		return sky, ""
 	}
 	sr := c.Rows[sky]
+	if why := orbitDataTest(kr, sr); why != "" {
+		return sky, "kepler not used: " + why
+	}
+	return k, fmt.Sprintf("kepler: the two-body orbit fits the data (χ²/dof %.2f, within the %s fit's %.2f and its χ² noise) and, unlike a polynomial in time, extrapolates beyond the arc; started from %s",
+		sol.Chi2DoF, sr.Model, sr.Chi2DoF, startName(sol.Start))
+}
+
+// orbitDataTest applies the data tests of [chooseKepler] to the orbit row
+// kr against the sky-plane row sr: "" when the orbit passes, else why not
+// (its χ²/dof beyond the sky-plane fit's within the χ² noise, or folds that
+// miss beyond their own uncertainty).
+func orbitDataTest(kr, sr ModelRow) string {
+	sol := kr.Orbit.Solution
 	r := math.Max(1, sr.Chi2DoF)
 	limit := r
 	if sol.DoF > 0 {
 		limit = r * (1 + 3*math.Sqrt(2/float64(sol.DoF)))
 	}
 	if !(sol.Chi2DoF <= limit) {
-		return sky, fmt.Sprintf("kepler not used: its χ²/dof %.2f exceeds %.2f (the %s fit's, within its χ² noise)", sol.Chi2DoF, limit, sr.Model)
+		return fmt.Sprintf("its χ²/dof %.2f exceeds %.2f (the %s fit's, within its χ² noise)", sol.Chi2DoF, limit, sr.Model)
 	}
 	if nm := kr.CVNormRMS; !math.IsNaN(nm) && kr.CV.Folds > 0 {
 		limit := 1 + 3/math.Sqrt(float64(kr.CV.Folds))
 		if nm*nm > limit {
-			return sky, fmt.Sprintf("kepler not used: the orbits fitted without each night miss it by %.2f times their own uncertainty (normalised mean square %.2f, above %.2f)", nm, nm*nm, limit)
+			return fmt.Sprintf("the orbits fitted without each night miss it by %.2f times their own uncertainty (normalised mean square %.2f, above %.2f)", nm, nm*nm, limit)
 		}
 	}
-	return k, fmt.Sprintf("kepler: the two-body orbit fits the data (χ²/dof %.2f, within the %s fit's %.2f and its χ² noise) and, unlike a polynomial in time, extrapolates beyond the arc; started from %s",
-		sol.Chi2DoF, sr.Model, sr.Chi2DoF, startName(sol.Start))
+	return ""
 }
 
 // startName names the start method for people.

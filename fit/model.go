@@ -21,10 +21,17 @@ const (
 	// KindKepler is a heliocentric two-body orbit fitted to the observations
 	// ([FitOrbit]); it is not a sky-plane model and [Fit] refuses it.
 	KindKepler
+	// KindNBody is a heliocentric orbit perturbed by the planets and the
+	// Moon, fitted to the observations ([FitNBody]); not a sky-plane model
+	// either.
+	KindNBody
 )
 
 // Kepler returns the two-body orbit model.
 func Kepler() Model { return Model{Kind: KindKepler} }
+
+// NBody returns the perturbed orbit model.
+func NBody() Model { return Model{Kind: KindNBody} }
 
 // Model is a sky-plane motion model: the geocentric standard coordinates
 // ξ(τ), η(τ) as linear combinations of the same basis functions of the scaled
@@ -67,6 +74,8 @@ func (m Model) Name() string {
 		return "piecewise"
 	case KindKepler:
 		return "kepler"
+	case KindNBody:
+		return "nbody"
 	}
 	return fmt.Sprintf("poly%d", m.Degree)
 }
@@ -85,11 +94,11 @@ func (m Model) String() string {
 }
 
 // ModelNames are the names [ParseModelName] accepts, "auto" first.
-var ModelNames = []string{"auto", "poly1", "poly2", "poly3", "piecewise", "kepler"}
+var ModelNames = []string{"auto", "poly1", "poly2", "poly3", "piecewise", "kepler", "nbody"}
 
 // ParseModelName checks a model name given by a user (case and surrounding
 // blanks ignored) and returns it in canonical form: one of auto, poly1,
-// poly2, poly3, piecewise, kepler.
+// poly2, poly3, piecewise, kepler, nbody.
 func ParseModelName(s string) (name string, err error) {
 	t := strings.ToLower(strings.TrimSpace(s))
 	for _, n := range ModelNames {
@@ -106,7 +115,7 @@ func (m Model) NumPerCoord() int {
 	switch m.Kind {
 	case KindPiecewise:
 		return 2 + len(m.Knots)
-	case KindKepler:
+	case KindKepler, KindNBody:
 		return 3 // the six elements of the state, counted three per coordinate
 	}
 	return m.Degree + 1
@@ -135,6 +144,8 @@ func (m Model) validate() error {
 		}
 	case KindKepler:
 		return fmt.Errorf("fit: kepler is a two-body orbit, not a sky-plane model (use FitOrbit)")
+	case KindNBody:
+		return fmt.Errorf("fit: nbody is a perturbed orbit, not a sky-plane model (use FitNBody)")
 	default:
 		return fmt.Errorf("fit: unknown model kind %d", int(m.Kind))
 	}

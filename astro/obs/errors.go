@@ -3,6 +3,7 @@ package obs
 import (
 	"errors"
 	"strconv"
+	"unicode"
 	"unicode/utf8"
 
 	"arcfit/astro"
@@ -65,7 +66,7 @@ type ParseError struct {
 func (e *ParseError) Error() string {
 	s := position(e.File, e.Line, e.Column)
 	if e.Field != "" {
-		s += e.Field + ": "
+		s += fieldName(e.Field) + ": "
 	}
 	switch {
 	case e.Want != "":
@@ -84,6 +85,19 @@ func (e *ParseError) Error() string {
 
 // Unwrap returns the sentinel the error wraps.
 func (e *ParseError) Unwrap() error { return e.Err }
+
+// fieldName returns the field name f for a message: as it is, or quoted
+// (control characters escaped, shortened as Got) when it holds a character
+// that is not printable, such as a line break in a JSON key, so that the
+// message stays on one line.
+func fieldName(f string) string {
+	for _, r := range f {
+		if !unicode.IsPrint(r) {
+			return quoteGot(f)
+		}
+	}
+	return f
+}
 
 // quoteGot quotes s for an error message, shortened to maxGot characters.
 func quoteGot(s string) string {

@@ -52,8 +52,11 @@ func (l *lineScanner) next() (string, bool) {
 // checkText reports the byte offset of the first character in line that has
 // no place in a text file — a control character other than tab, or bytes
 // that are not UTF-8 — and what was found; -1 if the line is clean.
+//
+// Every byte is looked at: a control character after a non-ASCII one is
+// found as well as one before it.
 func checkText(line string) (int, string) {
-	for i := 0; i < len(line); i++ {
+	for i := 0; i < len(line); {
 		c := line[i]
 		switch {
 		case c == '\t':
@@ -62,19 +65,15 @@ func checkText(line string) (int, string) {
 				return i, "a carriage return inside the line"
 			}
 			return i, "binary data"
-		case c >= 0x80:
-			if utf8.ValidString(line[i:]) {
-				return -1, ""
+		case c >= utf8.RuneSelf:
+			r, size := utf8.DecodeRuneInString(line[i:])
+			if r == utf8.RuneError && size == 1 {
+				return i, "bytes that are not UTF-8 text"
 			}
-			for j, r := range line[i:] {
-				if r == utf8.RuneError {
-					if _, size := utf8.DecodeRuneInString(line[i+j:]); size == 1 {
-						return i + j, "bytes that are not UTF-8 text"
-					}
-				}
-			}
-			return -1, ""
+			i += size
+			continue
 		}
+		i++
 	}
 	return -1, ""
 }

@@ -73,7 +73,7 @@ func runDemo(o demoOptions, io streams) error {
 		return usagef("--out: want a directory")
 	}
 	if err := os.MkdirAll(o.dir, 0o755); err != nil {
-		return err
+		return inputError(fmt.Errorf("--out %s: cannot make the directory: %v", o.dir, err))
 	}
 	content := demo.Files()
 	for _, name := range demoWrites { // check all before writing any

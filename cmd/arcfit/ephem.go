@@ -254,7 +254,7 @@ func parseStep(s string) (time.Duration, error) {
 		d += e
 	}
 	if d <= 0 {
-		return 0, bad(" (a zero or negative step never reaches --to)")
+		return 0, bad(" (a zero or negative step does not advance)")
 	}
 	return d, nil
 }

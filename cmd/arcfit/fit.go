@@ -47,6 +47,7 @@ type fitOptions struct {
 	// chart and compareChart are the --chart (residuals) and
 	// --compare-chart (the models beyond the arc) files, .png or .svg.
 	chart, compareChart string
+	many                manyOptions // --jobs, for several files (fitmany.go)
 }
 
 // newFitCommand returns the fit command.
@@ -54,7 +55,7 @@ func newFitCommand() *command {
 	return &command{
 		name:    "fit",
 		summary: "fit motion models to the observations",
-		usage:   "arcfit fit OBS [--sites FILE] [--site SITE] [--model auto|poly1|poly2|poly3|piecewise] [--save FIT.json] [--json | --csv]",
+		usage:   "arcfit fit OBS [OBS…|DIR] [--jobs N] [--sites FILE] [--site SITE] [--model auto|poly1|poly2|poly3|piecewise] [--save FIT.json] [--json | --csv]",
 		about: "Fits sky-plane motion models to the observations by weighted least squares on the tangent plane at the " +
 			"arc's mean direction: straight, quadratic and cubic motion in time (poly1, poly2, poly3) and straight " +
 			"segments joined at knots between nights (piecewise), each with the diurnal parallax of the observing " +
@@ -76,6 +77,9 @@ func newFitCommand() *command {
 				return err
 			}
 			o.distanceSet = fs.Changed("distance")
+			if isFitMany(fs.Args()) {
+				return runFitMany(o, fs.Args(), io)
+			}
 			switch fs.NArg() {
 			case 1:
 				o.file = fs.Arg(0)
@@ -112,6 +116,7 @@ func fitFlags(o *fitOptions, stderr io.Writer) *pflag.FlagSet {
 	fs.StringVar(&o.compareChart, "compare-chart", "", "also write each model's 3-σ region and offset beyond the arc as a chart to this `file`, .png or .svg")
 	fs.BoolVar(&o.json, "json", false, "print one JSON object: the fit, the comparison, the residuals and the observations")
 	fs.BoolVar(&o.csv, "csv", false, "print the residual of every observation as CSV with a header")
+	manyFlags(fs, &o.many)
 	return fs
 }
 

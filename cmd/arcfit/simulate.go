@@ -198,6 +198,9 @@ func simulateNights(o simulateOptions) ([]plan.Date, error) {
 		for _, f := range strings.Split(o.nights, ",") {
 			d, err := parseNightDate(f)
 			if err != nil {
+				if outsideSpan(f) {
+					return nil, usagef("--nights %q: %s is outside the span of the ephemerides, 1800 to 2200", o.nights, strings.TrimSpace(f))
+				}
 				return nil, usagef("--nights %q: %q is not a date; want YYYY-MM-DD,YYYY-MM-DD…", o.nights, strings.TrimSpace(f))
 			}
 			if seen[d] {
@@ -213,6 +216,9 @@ func simulateNights(o simulateOptions) ([]plan.Date, error) {
 	case o.from != "":
 		d, err := parseNightDate(o.from)
 		if err != nil {
+			if outsideSpan(o.from) {
+				return nil, usagef("--from %q: outside the span of the ephemerides, 1800 to 2200", o.from)
+			}
 			return nil, usagef("--from %q: want the first evening's date as YYYY-MM-DD", o.from)
 		}
 		if o.nightCount < 1 || o.nightCount > maxNightCount {
@@ -230,6 +236,13 @@ func simulateNights(o simulateOptions) ([]plan.Date, error) {
 		return nil, usagef("--night-count needs --from DATE, the first evening")
 	}
 	return nil, usagef("no nights given: --nights DATE[,DATE…], or --from DATE --night-count N")
+}
+
+// outsideSpan reports, for a date that parseNightDate refused, whether it
+// was refused for lying outside 1800–2200 (it reads as YYYY-MM-DD).
+func outsideSpan(s string) bool {
+	_, err := time.Parse("2006-01-02", strings.TrimSpace(s))
+	return err == nil
 }
 
 // checkOutPath checks that the directory of an output file exists.

@@ -63,6 +63,9 @@ type Options struct {
 	// SlopeG is the slope parameter G of the H, G magnitude fit; 0 means
 	// ephem.DefaultSlopeG (0.15).
 	SlopeG float64
+	// Motion is the dynamics [Determine] fits the orbit with (nil: two-body
+	// motion). [Correct] takes the dynamics of the state it starts from.
+	Motion Motion
 }
 
 // ObsResidual is one observation's residual against a fitted orbit.
@@ -122,6 +125,10 @@ type Solution struct {
 	NumMag       int
 	// FirstUTC and LastUTC bound the arc of the used observations.
 	FirstUTC, LastUTC astro.JD
+	// Encounters are the close approaches the integration of the orbit from
+	// its epoch to the observations found (within 0.05 au of the Earth,
+	// inside a planet's Hill sphere); always nil for two-body motion.
+	Encounters []Encounter
 	// Notes are plain-words remarks: scaled covariance, outliers flagged
 	// (each with its residual), no degrees of freedom, the magnitude fit.
 	Notes []string
@@ -132,15 +139,19 @@ type Solution struct {
 // its covariance.
 //
 // Parameters: the six Cartesian components of the state at start.Epoch
-// (heliocentric ICRS, au and au/day). The residuals are those of
-// [State.Residuals]: light-time-retarded topocentric places (each
-// observation's stored site geometry, UTC → TT → TDB) against the observed
-// ones, on the tangent plane, whitened by each observation's 2×2 covariance
-// (σ in RA·cos δ and Dec, and their correlation).
+// (heliocentric ICRS, au and au/day; the osculating state when start has a
+// Motion), moved by start.Motion (two-body motion when nil). The residuals
+// are those of [State.Residuals]: light-time-retarded topocentric places
+// (each observation's stored site geometry, UTC → TT → TDB) against the
+// observed ones, on the tangent plane, whitened by each observation's 2×2
+// covariance (σ in RA·cos δ and Dec, and their correlation). With a Motion
+// each evaluation is one integration to all the observations.
 //
 // Method: Levenberg–Marquardt. At each iterate x the whitened Jacobian
-// J = ∂r/∂x is formed by central differences (see [jacobianFD] for the step
-// sizes), its columns are scaled to unit length (J̃ = J·D⁻¹, the scaling of
+// J = ∂r/∂x is formed by central differences for two-body motion (see
+// [jacobianFD] for the step sizes), and from the state transition matrices
+// of one integration with the variational equations for a Motion (see
+// [corrector.jacobianSTM]); its columns are scaled to unit length (J̃ = J·D⁻¹, the scaling of
 // Moré 1978, which puts positions in au and velocities in au/day on one
 // footing), and J̃ is factorised by the SVD, J̃ = U Σ Vᵀ. The damped step is
 //
@@ -221,6 +232,7 @@ func Correct(obs []Observation, start State, opt Options) (*Solution, error) {
 			Hint: "give the epoch in TDB", Err: ErrInvalidStart}
 	}
 	c := newCorrector(work, start.Epoch)
+	c.motion = start.Motion
 	res, err := c.run(stateVector(start), o.MaxIterations)
 	if err != nil {
 		return nil, err
@@ -266,6 +278,7 @@ type corrector struct {
 	obs    []Observation
 	inUsed []bool // Used as given
 	epoch  astro.JD
+	motion Motion // the dynamics of the start; nil for two-body
 	r      []float64  // whitened residuals at the current iterate
 	rp, rm []float64  // buffers of the finite differences
 	jac    *mat.Dense // whitened Jacobian, columns scaled to unit length
@@ -298,10 +311,18 @@ func stateOfVector(epoch astro.JD, x [6]float64) State {
 	return State{Epoch: epoch, Pos: r3.Vec{X: x[0], Y: x[1], Z: x[2]}, Vel: r3.Vec{X: x[3], Y: x[4], Z: x[5]}}
 }
 
+// state returns the corrector's orbit of parameter vector x, with its
+// dynamics.
+func (c *corrector) state(x [6]float64) State {
+	st := stateOfVector(c.epoch, x)
+	st.Motion = c.motion
+	return st
+}
+
 // residuals evaluates the whitened residuals of the parameter vector x into
 // dst (reused); an orbit that cannot be evaluated gives an error.
 func (c *corrector) residuals(x [6]float64, dst []float64) ([]float64, float64, error) {
-	st := stateOfVector(c.epoch, x)
+	st := c.state(x)
 	if !st.Valid() {
 		return dst, math.Inf(1), fmt.Errorf("orbit: state not finite")
 	}
@@ -358,7 +379,7 @@ func (c *corrector) run(x0 [6]float64, maxIter int) (lmResult, error) {
 	ur := make([]float64, 6)
 	rn := make([]float64, 0, m)
 	for iter := 1; iter <= maxIter; iter++ {
-		d, err := c.jacobianFD(x)
+		d, err := c.jacobian(x)
 		if err != nil {
 			return lmResult{}, &CorrectError{
 				Reason:     fmt.Sprintf("partial derivatives could not be formed at iteration %d (%v)", iter, err),
@@ -533,7 +554,7 @@ func (c *corrector) rejectOutliers(res lmResult, o Options, iters, nUsed int) (l
 		iters += next.iterations
 		ob := &c.obs[worst]
 		dE, dN := 0.0, 0.0
-		if seen, err := stateOfVector(c.epoch, next.x).Observe(ob.Geo); err == nil {
+		if seen, err := c.state(next.x).Observe(ob.Geo); err == nil {
 			dE, dN = Residual(ob.RA, ob.Dec, seen.Dir)
 		}
 		notes = append(notes, fmt.Sprintf(
@@ -549,8 +570,17 @@ func (c *corrector) rejectOutliers(res lmResult, o Options, iters, nUsed int) (l
 // finish builds the Solution from the final result: residuals of every
 // observation, χ² statistics, the scaled covariance, H.
 func (c *corrector) finish(res lmResult, o Options) (*Solution, error) {
-	st := stateOfVector(c.epoch, res.x)
+	st := c.state(res.x)
 	sol := &Solution{State: st, Chi2: res.chi2, Cond: res.cond, H: math.NaN()}
+	// One propagation to every observation, used or not (to the used ones
+	// alone when an unused one cannot be reached).
+	path, idx, err := st.usedPath(c.obs, true)
+	if err != nil {
+		if path, idx, err = st.usedPath(c.obs, false); err != nil {
+			return nil, err
+		}
+	}
+	sol.Encounters = path.Encounters
 	sumSq, n := 0.0, 0
 	first, last := math.Inf(1), math.Inf(-1)
 	sol.Residuals = make([]ObsResidual, len(c.obs))
@@ -561,7 +591,11 @@ func (c *corrector) finish(res lmResult, o Options) (*Solution, error) {
 		ob := &c.obs[i]
 		rr := ObsResidual{Index: ob.Index, Line: ob.Line, UTC: ob.Geo.UTC, Used: ob.Used}
 		rr.Flagged = c.inUsed[i] && !ob.Used
-		s, err := st.Observe(ob.Geo)
+		var s Seen
+		err := errNoMotion
+		if idx[i] >= 0 {
+			s, err = path.Observe(idx[i], ob.Geo)
+		}
 		if err != nil {
 			if ob.Used { // evaluated by the fit a moment ago: cannot happen
 				return nil, fmt.Errorf("orbit: line %d: %v", ob.Line, err)

@@ -9,6 +9,8 @@ import (
 	"sync"
 	"sync/atomic"
 
+	"arcfit/astro"
+
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/spatial/r3"
 )
@@ -89,7 +91,7 @@ type OrbitSamples struct {
 // CovarianceOrbits draws s.N orbits from the multivariate normal
 // distribution of mean st and covariance cov (6×6, in the order Pos.X,
 // Pos.Y, Pos.Z, Vel.X, Vel.Y, Vel.Z; au, au/day — a [Solution]'s State and
-// Cov), all at st.Epoch with equal weights:
+// Cov), all at st.Epoch with st.Motion and equal weights:
 //
 //	x = x̄ + B·z,   z ~ N(0, I₆),   B·Bᵀ = cov
 //
@@ -141,7 +143,7 @@ func CovarianceOrbits(st State, cov *mat.SymDense, s MonteCarloSettings) (*Orbit
 				}
 				x[j] = v
 			}
-			states[i] = State{Epoch: st.Epoch, Pos: r3.Vec{X: x[0], Y: x[1], Z: x[2]}, Vel: r3.Vec{X: x[3], Y: x[4], Z: x[5]}}
+			states[i] = State{Epoch: st.Epoch, Pos: r3.Vec{X: x[0], Y: x[1], Z: x[2]}, Vel: r3.Vec{X: x[3], Y: x[4], Z: x[5]}, Motion: st.Motion}
 		}
 	})
 	w := make([]float64, s.N)
@@ -311,4 +313,54 @@ func (p *mcProgress) finish() {
 		p.last = p.total
 		p.fn(p.total, p.total)
 	}
+}
+
+// Propagated returns the set moved to each TDB instant of tdbs: for each
+// instant a set with the same method, weights and notes whose orbits are
+// the states there, as two-body orbits osculating at that instant (Motion
+// nil), good for the short steps of [OrbitSamples.Predict] near it (see
+// [Path] for what a step neglects). Each orbit with a Motion is integrated
+// once to all the instants, the orbits in parallel across s.Workers
+// goroutines (s.Progress is called as they finish); a two-body orbit is
+// propagated by two-body motion. An orbit whose integration fails keeps a
+// state that is not finite, which [OrbitSamples.Predict] counts among the
+// failed orbits.
+//
+// Errors: no orbits; settings out of range.
+func (o *OrbitSamples) Propagated(tdbs []astro.JD, s MonteCarloSettings) ([]*OrbitSamples, error) {
+	if o == nil || len(o.States) == 0 {
+		return nil, errors.New("orbit: Monte Carlo: no sampled orbits to propagate")
+	}
+	s.N = len(o.States)
+	s, err := s.resolved()
+	if err != nil {
+		return nil, err
+	}
+	n, m := len(o.States), len(tdbs)
+	out := make([]*OrbitSamples, m)
+	for j := range out {
+		out[j] = &OrbitSamples{Method: o.Method, States: make([]State, n), Weights: append([]float64(nil), o.Weights...),
+			Proposed: o.Proposed, EffectiveN: o.EffectiveN, Notes: append([]string(nil), o.Notes...)}
+	}
+	nan := math.NaN()
+	bad := State{Pos: r3.Vec{X: nan, Y: nan, Z: nan}, Vel: r3.Vec{X: nan, Y: nan, Z: nan}}
+	prog := mcNewProgress(s.Progress, n)
+	mcRun(n, s.Workers, prog, func() func(i int) {
+		return func(i int) {
+			st := o.States[i]
+			p, err := st.Propagate(tdbs, false)
+			for j := range tdbs {
+				a := bad
+				a.Epoch = tdbs[j]
+				if err == nil {
+					if aj, aerr := p.Anchor(j); aerr == nil {
+						a = aj
+					}
+				}
+				out[j].States[i] = a
+			}
+		}
+	})
+	prog.finish()
+	return out, nil
 }

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"arcfit/astro"
 	"arcfit/ephem"
 
 	"gonum.org/v1/gonum/mat"
@@ -96,6 +97,84 @@ func (c *corrector) jacobianFD(x [6]float64) ([6]float64, error) {
 		d[k] = norm
 		for i := 0; i < m; i++ {
 			c.jac.Set(i, k, c.jac.At(i, k)/norm)
+		}
+	}
+	return d, nil
+}
+
+// jacobian forms the whitened, column-scaled Jacobian at x: by central
+// differences for two-body motion ([corrector.jacobianFD]), from the state
+// transition matrix for a Motion ([corrector.jacobianSTM]).
+func (c *corrector) jacobian(x [6]float64) ([6]float64, error) {
+	if c.motion == nil {
+		return c.jacobianFD(x)
+	}
+	return c.jacobianSTM(x)
+}
+
+// jacobianSTM forms the whitened Jacobian ∂r/∂x at x from one integration of
+// the orbit with its variational equations to every used observation: each
+// observation's rows are the partials of its residual on the tangent plane
+// with respect to the computed direction ([residualPartials]) times those of
+// the direction with respect to the state at the epoch through the light
+// time and the state transition matrix ([Path.observePartials]), whitened as
+// the residuals are ([Observation.Whitened] is linear). The columns are
+// scaled to unit length as in [corrector.jacobianFD]; it returns the column
+// norms.
+func (c *corrector) jacobianSTM(x [6]float64) ([6]float64, error) {
+	var d [6]float64
+	st := c.state(x)
+	ts := make([]astro.JD, 0, len(c.obs))
+	for i := range c.obs {
+		if c.obs[i].Used {
+			ts = append(ts, c.obs[i].Geo.TDB)
+		}
+	}
+	p, err := st.Propagate(ts, true)
+	if err != nil {
+		return d, err
+	}
+	m := 2 * len(ts)
+	if m != len(c.r) {
+		return d, fmt.Errorf("orbit: residual count changed during differencing")
+	}
+	if c.jac == nil || c.jac.RawMatrix().Rows != m {
+		c.jac = mat.NewDense(m, 6, nil)
+	}
+	k := 0
+	for i := range c.obs {
+		o := &c.obs[i]
+		if !o.Used {
+			continue
+		}
+		seen, du, err := p.observePartials(k, o.Geo)
+		if err != nil {
+			return d, err
+		}
+		gE, gN := residualPartials(o.RA, o.Dec, seen.Dir, &du)
+		for j := range 6 {
+			w1, w2 := o.Whitened(gE[j], gN[j])
+			c.jac.Set(2*k, j, w1)
+			c.jac.Set(2*k+1, j, w2)
+		}
+		k++
+	}
+	for j := range 6 {
+		norm := 0.0
+		for i := range m {
+			g := c.jac.At(i, j)
+			norm += g * g
+		}
+		norm = math.Sqrt(norm)
+		if math.IsNaN(norm) || math.IsInf(norm, 0) {
+			return d, fmt.Errorf("orbit: partial derivative %d not finite", j)
+		}
+		if norm == 0 {
+			norm = 1
+		}
+		d[j] = norm
+		for i := range m {
+			c.jac.Set(i, j, c.jac.At(i, j)/norm)
 		}
 	}
 	return d, nil

@@ -2,6 +2,8 @@ package orbit
 
 import (
 	"math"
+
+	"arcfit/astro"
 )
 
 // Whitened returns the observation's residual (dE, dN) (radians, see
@@ -18,16 +20,24 @@ func (o *Observation) Whitened(dE, dN float64) (w1, w2 float64) {
 // in order, see [Observation.Whitened]) of the orbit s against obs and
 // returns the extended slice and their sum of squares χ².
 //
+// A State with a Motion is propagated once to every used observation's
+// instant ([State.Propagate]) and each place taken from there
+// ([Path.Observe]); a two-body State propagates from its epoch for each.
+//
 // Errors: those of [State.Observe] (a propagation that fails, a light time
 // that does not converge).
 func (s State) Residuals(obs []Observation, dst []float64) ([]float64, float64, error) {
+	path, idx, err := s.usedPath(obs, false)
+	if err != nil {
+		return dst, math.Inf(1), err
+	}
 	chi2 := 0.0
 	for i := range obs {
 		o := &obs[i]
 		if !o.Used {
 			continue
 		}
-		seen, err := s.Observe(o.Geo)
+		seen, err := path.Observe(idx[i], o.Geo)
 		if err != nil {
 			return dst, math.Inf(1), err
 		}
@@ -37,4 +47,21 @@ func (s State) Residuals(obs []Observation, dst []float64) ([]float64, float64, 
 		dst = append(dst, w1, w2)
 	}
 	return dst, chi2, nil
+}
+
+// usedPath propagates s once to the instants of the used observations of obs
+// (all of them when all is true) and returns the path with, for each
+// observation, its anchor's index (−1 for one left out).
+func (s State) usedPath(obs []Observation, all bool) (*Path, []int, error) {
+	idx := make([]int, len(obs))
+	ts := make([]astro.JD, 0, len(obs))
+	for i := range obs {
+		idx[i] = -1
+		if obs[i].Used || all {
+			idx[i] = len(ts)
+			ts = append(ts, obs[i].Geo.TDB)
+		}
+	}
+	p, err := s.Propagate(ts, false)
+	return p, idx, err
 }

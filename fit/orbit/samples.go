@@ -76,7 +76,8 @@ type RegionEllipse struct {
 var smpFarCos = math.Cos(80 * math.Pi / 180)
 
 // Predict propagates every orbit of the set to the observer geometry at
-// (two-body motion, light time, [State.Observe]) and returns the search
+// (two-body motion, light time, [State.Observe]; an orbit with a Motion is
+// integrated to the instant, the orbits in parallel) and returns the search
 // region they give. s.Workers and s.Progress are used; s.N and s.Seed are
 // not.
 //
@@ -98,6 +99,21 @@ var smpFarCos = math.Cos(80 * math.Pi / 180)
 // chapter, "Weighted Samples"; Kish, Survey Sampling (1965) (effective
 // sample size).
 func (o *OrbitSamples) Predict(at ephem.ObserverGeometry, s MonteCarloSettings) (*SampledRegion, error) {
+	rs, err := o.PredictAll([]ephem.ObserverGeometry{at}, s)
+	if err != nil {
+		return nil, err
+	}
+	return rs[0], nil
+}
+
+// PredictAll returns the regions of [OrbitSamples.Predict] at each observer
+// geometry of ats. Each orbit with a Motion is integrated once to all the
+// instants ([State.Propagate]), the orbits in parallel across s.Workers
+// goroutines; a two-body orbit is propagated from its epoch to each.
+//
+// Errors: those of [OrbitSamples.Predict], for the first instant that
+// fails.
+func (o *OrbitSamples) PredictAll(ats []ephem.ObserverGeometry, s MonteCarloSettings) ([]*SampledRegion, error) {
 	if o == nil || len(o.States) == 0 {
 		return nil, errors.New("orbit: Monte Carlo: no sampled orbits to propagate")
 	}
@@ -109,24 +125,62 @@ func (o *OrbitSamples) Predict(at ephem.ObserverGeometry, s MonteCarloSettings) 
 	if err != nil {
 		return nil, err
 	}
-	n := len(o.States)
-	dirs := make([]r3.Vec, n)
-	samples := make([]SkySample, n)
-	okAt := make([]bool, n)
+	n, m := len(o.States), len(ats)
+	tdbs := make([]astro.JD, m)
+	for j := range ats {
+		tdbs[j] = ats[j].TDB
+	}
+	dirs := make([][]r3.Vec, m)
+	samples := make([][]SkySample, m)
+	okAt := make([][]bool, m)
+	for j := range ats {
+		dirs[j], samples[j], okAt[j] = make([]r3.Vec, n), make([]SkySample, n), make([]bool, n)
+	}
 	prog := mcNewProgress(s.Progress, n)
 	mcRun(n, s.Workers, prog, func() func(i int) {
 		return func(i int) {
-			seen, err := o.States[i].Observe(at)
-			if err != nil || !rgFinite(seen.Dir) || !rgFiniteF(seen.DeltaAU) {
-				return
+			st := o.States[i]
+			var path *Path
+			if st.Motion != nil {
+				var err error
+				if path, err = st.Propagate(tdbs, false); err != nil {
+					return
+				}
 			}
-			ra, dec, _ := astro.Spherical(seen.Dir)
-			dirs[i] = seen.Dir
-			samples[i] = SkySample{RA: ra, Dec: dec, Weight: o.Weights[i], DeltaAU: seen.DeltaAU}
-			okAt[i] = true
+			for j := range ats {
+				var seen Seen
+				var err error
+				if path != nil {
+					seen, err = path.Observe(j, ats[j])
+				} else {
+					seen, err = st.Observe(ats[j])
+				}
+				if err != nil || !rgFinite(seen.Dir) || !rgFiniteF(seen.DeltaAU) {
+					continue
+				}
+				ra, dec, _ := astro.Spherical(seen.Dir)
+				dirs[j][i] = seen.Dir
+				samples[j][i] = SkySample{RA: ra, Dec: dec, Weight: o.Weights[i], DeltaAU: seen.DeltaAU}
+				okAt[j][i] = true
+			}
 		}
 	})
 	prog.finish()
+	out := make([]*SampledRegion, m)
+	for j := range ats {
+		r, err := o.region(ats[j], dirs[j], samples[j], okAt[j])
+		if err != nil {
+			return nil, err
+		}
+		out[j] = r
+	}
+	return out, nil
+}
+
+// region forms the search region of [OrbitSamples.Predict] at the
+// geometry at from the sampled places (valid where okAt).
+func (o *OrbitSamples) region(at ephem.ObserverGeometry, dirs []r3.Vec, samples []SkySample, okAt []bool) (*SampledRegion, error) {
+	n := len(o.States)
 	r := &SampledRegion{UTC: at.UTC, Method: o.Method, Notes: append([]string(nil), o.Notes...)}
 	// Keep the orbits that reached the instant, in order.
 	k := 0

@@ -11,16 +11,29 @@ import (
 )
 
 // State is a heliocentric orbit: position (au) and velocity (au/day) in ICRS
-// axes at the TDB instant Epoch, moved by two-body motion about the Sun with
-// GM = ephem.GMSun.
+// axes at the TDB instant Epoch, moved by its Motion: two-body motion about
+// the Sun with GM = ephem.GMSun when Motion is nil (the default), else the
+// force model Motion names ([NBody]: the Sun, the planets and the Moon).
+// Pos and Vel are then the osculating state at the epoch.
 type State struct {
 	Epoch    astro.JD // TDB
 	Pos, Vel r3.Vec
+	// Motion is the force model; nil for two-body motion.
+	Motion Motion
 }
 
-// At returns the state's position and velocity at the TDB instant tdb by
-// two-body motion ([ephem.PropagateUniversal], universal variables).
+// At returns the state's position and velocity at the TDB instant tdb: by
+// two-body motion ([ephem.PropagateUniversal], universal variables) when
+// Motion is nil, else by one integration of Motion.
 func (s State) At(tdb astro.JD) (pos, vel r3.Vec, err error) {
+	if s.Motion != nil {
+		p, err := s.Propagate([]astro.JD{tdb}, false)
+		if err != nil {
+			return r3.Vec{}, r3.Vec{}, err
+		}
+		x := p.states[0]
+		return r3.Vec{X: x[0], Y: x[1], Z: x[2]}, r3.Vec{X: x[3], Y: x[4], Z: x[5]}, nil
+	}
 	dt := (tdb.Day - s.Epoch.Day) + (tdb.Frac - s.Epoch.Frac)
 	return ephem.PropagateUniversal(s.Pos, s.Vel, dt, ephem.GMSun)
 }
@@ -73,8 +86,18 @@ type Seen struct {
 
 // Observe returns where the orbit s is seen by the observer g: the
 // astrometric direction of the light-time-retarded heliocentric position
-// (see [ephem.ObserverGeometry.Direction]).
+// (see [ephem.ObserverGeometry.Direction]). A State with a Motion is
+// integrated to g.TDB and the light time taken by a two-body step from
+// there ([Path.Observe]); for many observers, [State.Propagate] once and
+// [Path.Observe] each.
 func (s State) Observe(g ephem.ObserverGeometry) (Seen, error) {
+	if s.Motion != nil {
+		p, err := s.Propagate([]astro.JD{g.TDB}, false)
+		if err != nil {
+			return Seen{}, err
+		}
+		return p.Observe(0, g)
+	}
 	var helio r3.Vec
 	f := func(tdb astro.JD) (r3.Vec, error) {
 		p, _, err := s.At(tdb)
