@@ -77,7 +77,7 @@ func (k *tracker) start(r *run, t float64, y, yp []float64, sign float64, alone 
 // impact reports an object inside body b's radius.
 func impact(r *run, b body, t, d float64) error {
 	if rad := bodies[b].radiusAU; rad > 0 && d < rad {
-		return fmt.Errorf("nbody: at JD %.5f TDB the object is %.0f km from the centre of %s, inside its radius (%.0f km): %w",
+		return fmt.Errorf("nbody: at JD %.5f TDB the object is %.1f km from the centre of %s, inside its radius (%.1f km): %w",
 			r.jd(t).Float(), d*de405AUKm, bodies[b].name, rad*de405AUKm, ErrImpact)
 	}
 	return nil
@@ -229,6 +229,6 @@ func (r *run) subStep(t0, h float64, j int) ([]float64, []float64, error) {
 			return nil, nil, err
 		}
 	}
-	b := s.best(j)
-	return b[:s.m], b[s.m:], nil
+	s.result(j, r.y0, r.ys, r.yps)
+	return r.ys, r.yps, nil
 }

@@ -176,14 +176,14 @@ func TestNoEncounter(t *testing.T) {
 }
 
 // TestHillRadii checks a·(m/3M)^(1/3) against the Hill radii commonly
-// quoted (from memory: the Earth's 1.5 million km, 0.0100 au; Jupiter's
-// 0.355 au; the Moon's about 60,000 km), 2 %.
+// quoted (from memory: the Earth's 1.5 million km, 0.0100 au, and Jupiter's
+// 0.355 au, within 2 %; the Moon's "about 60,000 km", within 5 %).
 func TestHillRadii(t *testing.T) {
 	for _, c := range []struct {
-		b    body
-		want float64
-	}{{bEarth, 0.0100}, {bJupiter, 0.355}, {bMoon, 60000 / astro.AUKm}} {
-		if got := hillAU(c.b); math.Abs(got/c.want-1) > 0.02 {
+		b         body
+		want, tol float64
+	}{{bEarth, 0.0100, 0.02}, {bJupiter, 0.355, 0.02}, {bMoon, 60000 / astro.AUKm, 0.05}} {
+		if got := hillAU(c.b); math.Abs(got/c.want-1) > c.tol {
 			t.Errorf("%s: Hill radius %.5g au, want %.5g", bodies[c.b].name, got, c.want)
 		}
 	}

@@ -53,16 +53,19 @@ func seqN(j int) int { return 2 * (j + 1) }
 //	Δ_i = Δ_{i−1} + h² f(t + ih, y_i),  y_{i+1} = y_i + Δ_i,  i = 1 … n−1,
 //	y′_n = Δ_{n−1}/h + (h/2) f(t + H, y_n).
 //
-// f0 is f(t, y0), shared by all rows. The result (y_n, y′_n) goes to out
-// (first m positions, then m derivatives).
+// f0 is f(t, y0), shared by all rows. The result goes to out: first the m
+// increments y_n − y0 (summed as increments, so the rounding of the sums is
+// relative to the step's motion rather than to |y|), then the m derivatives
+// y′_n.
 func (s *stepper) stormer(t, H float64, n int, y0, yp0, f0, out []float64) error {
 	m := len(y0)
 	h := H / float64(n)
 	h2 := h * h
-	yi, d, fi := s.yi, s.d, s.fi
+	yi, d, fi, u := s.yi, s.d, s.fi, s.u
 	for q := range m {
 		d[q] = h * (yp0[q] + 0.5*h*f0[q])
-		yi[q] = y0[q] + d[q]
+		u[q] = d[q]
+		yi[q] = y0[q] + u[q]
 	}
 	for i := 1; i < n; i++ {
 		if err := s.f(t+float64(i)*h, yi, fi); err != nil {
@@ -70,14 +73,15 @@ func (s *stepper) stormer(t, H float64, n int, y0, yp0, f0, out []float64) error
 		}
 		for q := range m {
 			d[q] += h2 * fi[q]
-			yi[q] += d[q]
+			u[q] += d[q]
+			yi[q] = y0[q] + u[q]
 		}
 	}
 	if err := s.f(t+H, yi, fi); err != nil {
 		return err
 	}
 	for q := range m {
-		out[q] = yi[q]
+		out[q] = u[q]
 		out[m+q] = d[q]/h + 0.5*h*fi[q]
 	}
 	return nil
@@ -91,8 +95,7 @@ type stepper struct {
 
 	tab       [maxRows][]float64 // tableau rows: T[j][0 … j] packed as (j+1)·2m
 	yi, d, fi []float64
-	f0        []float64
-	errs      [maxRows]float64
+	u, f0     []float64
 	hopt      [maxRows]float64
 	work      [maxRows]float64
 
@@ -107,6 +110,7 @@ func newStepper(m int, tol float64, f func(t float64, y, a []float64) error) *st
 	s.yi = make([]float64, m)
 	s.d = make([]float64, m)
 	s.fi = make([]float64, m)
+	s.u = make([]float64, m)
 	s.f0 = make([]float64, m)
 	return s
 }
@@ -143,10 +147,21 @@ func (s *stepper) row(j int, t, H float64, y0, yp0 []float64) error {
 	return nil
 }
 
-// best returns the extrapolated value of row j, T_{j,j}.
+// best returns the extrapolated value of row j, T_{j,j}: the increments of
+// the positions, then the derivatives.
 func (s *stepper) best(j int) []float64 {
 	w := 2 * s.m
 	return s.tab[j][j*w : (j+1)*w]
+}
+
+// result writes the state after the step, T_{j,j} added to the start
+// (y0, yp0), into (y, yp).
+func (s *stepper) result(j int, y0, y, yp []float64) {
+	b := s.best(j)
+	for q := range s.m {
+		y[q] = y0[q] + b[q]
+	}
+	copy(yp, b[s.m:])
 }
 
 // errNorm returns the scaled difference of T_{j,j−1} and T_{j,j} over the
@@ -161,7 +176,8 @@ func (s *stepper) errNorm(j int, y0, yp0 []float64) float64 {
 	b := s.tab[j][j*w : (j+1)*w]
 	m := s.m
 	r0 := math.Sqrt(y0[0]*y0[0] + y0[1]*y0[1] + y0[2]*y0[2])
-	r1 := math.Sqrt(b[0]*b[0] + b[1]*b[1] + b[2]*b[2])
+	e0, e1, e2 := y0[0]+b[0], y0[1]+b[1], y0[2]+b[2]
+	r1 := math.Sqrt(e0*e0 + e1*e1 + e2*e2)
 	v0 := math.Sqrt(yp0[0]*yp0[0] + yp0[1]*yp0[1] + yp0[2]*yp0[2])
 	v1 := math.Sqrt(b[m]*b[m] + b[m+1]*b[m+1] + b[m+2]*b[m+2])
 	sp := s.tol * math.Max(r0, r1)
@@ -219,7 +235,6 @@ func (s *stepper) try(t, H float64, kc int, y0, yp0 []float64, lastRejected, ear
 			continue
 		}
 		e := s.errNorm(j, y0, yp0)
-		s.errs[j] = e
 		s.optimal(j, e, H)
 		if early && e <= 1 {
 			return s.accept(j, kc, H, lastRejected), nil

@@ -197,6 +197,20 @@ func chebValue(c []float64, s float64) float64 {
 	return s*b1 - b2 + 0.5*c[0]
 }
 
+// chebValue3 evaluates the three series of c (x, y, z; n coefficients
+// each) at s together, as chebValue does for one.
+func chebValue3(c []float64, n int, s float64) [3]float64 {
+	cx, cy, cz := c[:n], c[n:2*n], c[2*n:3*n]
+	var x1, x2, y1, y2, z1, z2 float64
+	s2 := 2 * s
+	for k := n - 1; k >= 1; k-- {
+		x1, x2 = s2*x1-x2+cx[k], x1
+		y1, y2 = s2*y1-y2+cy[k], y1
+		z1, z2 = s2*z1-z2+cz[k], z1
+	}
+	return [3]float64{s*x1 - x2 + 0.5*cx[0], s*y1 - y2 + 0.5*cy[0], s*z1 - z2 + 0.5*cz[0]}
+}
+
 // view is one integration's window on the cache: it keeps the segment last
 // used per body, so the shared map is consulted only when a segment ends.
 type view struct {
@@ -227,14 +241,13 @@ func (w *view) position(b body, tau float64, vel bool) (p, v [3]float64, err err
 	}
 	s := 2*(tau-fi*L)/L - 1
 	n := info.nCoef
+	if !vel {
+		p = chebValue3(seg.c, n, s)
+		return p, v, nil
+	}
 	for q := range 3 {
-		c := seg.c[q*n : (q+1)*n]
-		if vel {
-			x, dx := chebEval(c, s)
-			p[q], v[q] = x, dx*2/L
-		} else {
-			p[q] = chebValue(c, s)
-		}
+		x, dx := chebEval(seg.c[q*n:(q+1)*n], s)
+		p[q], v[q] = x, dx*2/L
 	}
 	return p, v, nil
 }
