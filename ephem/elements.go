@@ -172,11 +172,18 @@ func (el Elements) StateAt(t astro.JD) (pos, vel r3.Vec, err error) {
 	if !tbDynamicalDate(t) {
 		return r3.Vec{}, r3.Vec{}, fmt.Errorf("ephem: StateAt: time %v is not a finite TT or TDB date: %w", t, astro.ErrRange)
 	}
+	p, q := gaussianVectors(el.I, el.Node, el.Peri)
+	return el.stateIn(t, p, q)
+}
+
+// stateIn is [Elements.StateAt] for a valid el and a valid t, with the
+// Gaussian vectors p, q of el (gaussianVectors) given, for callers that
+// need many states of one element set.
+func (el Elements) stateIn(t astro.JD, p, q r3.Vec) (pos, vel r3.Vec, err error) {
 	x, y, vx, vy, err := el.planeState(t)
 	if err != nil {
 		return r3.Vec{}, r3.Vec{}, err
 	}
-	p, q := gaussianVectors(el.I, el.Node, el.Peri)
 	pos = r3.Add(r3.Scale(x, p), r3.Scale(y, q))
 	vel = r3.Add(r3.Scale(vx, p), r3.Scale(vy, q))
 	if !tbFiniteVec(pos) || !tbFiniteVec(vel) {

@@ -133,17 +133,55 @@ type observerState struct {
 	geo            r3.Vec // observer from the Earth's centre
 }
 
+// skySource gives a place what it needs of the Earth, the Sun, the Moon and
+// the equator of date at one instant. [seriesSky] computes each from its
+// series; an ephemeris table interpolates them over a run of rows (see
+// [EphemerisTable]).
+type skySource interface {
+	// earth is the Earth's heliocentric ICRS state, [HeliocentricICRS].
+	earth(tdb astro.JD) (pos, vel r3.Vec, err error)
+	// sun is the Sun's barycentric ICRS state, [SunBarycentricICRS].
+	sun(tdb astro.JD) (pos, vel r3.Vec)
+	// moon is the geocentric Moon, [MoonGeocentricICRS].
+	moon(tt astro.JD) r3.Vec
+	// npb is [astro.BiasPrecessionNutationMatrix].
+	npb(tt astro.JD) astro.Mat3
+	// site is the site's geocentric GCRS state, [astro.SitePositionGCRS].
+	site(s astro.Site, ut1, tt astro.JD) (pos, vel r3.Vec)
+	// gast is [astro.GreenwichApparentSiderealTime].
+	gast(ut1, tt astro.JD) astro.Angle
+}
+
+// seriesSky computes every quantity of [skySource] from its series.
+type seriesSky struct{}
+
+func (seriesSky) earth(tdb astro.JD) (r3.Vec, r3.Vec, error) { return HeliocentricICRS(Earth, tdb) }
+func (seriesSky) sun(tdb astro.JD) (r3.Vec, r3.Vec)          { return SunBarycentricICRS(tdb) }
+func (seriesSky) moon(tt astro.JD) r3.Vec                    { return MoonGeocentricICRS(tt) }
+func (seriesSky) npb(tt astro.JD) astro.Mat3                 { return astro.BiasPrecessionNutationMatrix(tt) }
+func (seriesSky) site(s astro.Site, ut1, tt astro.JD) (r3.Vec, r3.Vec) {
+	return astro.SitePositionGCRS(s, ut1, tt)
+}
+func (seriesSky) gast(ut1, tt astro.JD) astro.Angle {
+	return astro.GreenwichApparentSiderealTime(ut1, tt)
+}
+
 // stateOf returns the observer's barycentric state at the instant in.
 func stateOf(site *astro.Site, in instant) (observerState, error) {
-	eh, ev, err := HeliocentricICRS(Earth, in.tdb)
+	return stateWith(site, in, seriesSky{})
+}
+
+// stateWith is [stateOf] with the Earth, the Sun and the site from sky.
+func stateWith(site *astro.Site, in instant, sky skySource) (observerState, error) {
+	eh, ev, err := sky.earth(in.tdb)
 	if err != nil {
 		return observerState{}, err
 	}
-	sp, sv := SunBarycentricICRS(in.tdb)
+	sp, sv := sky.sun(in.tdb)
 	st := observerState{pos: r3.Add(eh, sp), vel: r3.Add(ev, sv), sunPos: sp, sunVel: sv}
 	st.earthVel = st.vel
 	if site != nil {
-		p, v := astro.SitePositionGCRS(*site, in.ut1, in.tt)
+		p, v := sky.site(*site, in.ut1, in.tt)
 		st.geo = p
 		st.pos = r3.Add(st.pos, p)
 		st.vel = r3.Add(st.vel, v)
@@ -282,6 +320,12 @@ func TopocentricAstrometricDirection(helioPosAtTDB func(tdb astro.JD) (r3.Vec, e
 // ch. 7; Meeus, Astronomical Algorithms, 2nd ed., ch. 13, 16, 33 and 41
 // (phase angle and elongation).
 func Astrometric(helioTarget func(tdb astro.JD) (r3.Vec, error), utc astro.JD, o Observer) (Place, error) {
+	return astrometricWith(helioTarget, utc, o, seriesSky{})
+}
+
+// astrometricWith is [Astrometric] with the Earth, the Sun, the Moon and the
+// equator of date from sky.
+func astrometricWith(helioTarget func(tdb astro.JD) (r3.Vec, error), utc astro.JD, o Observer, sky skySource) (Place, error) {
 	if err := checkObserver(o); err != nil {
 		return Place{}, err
 	}
@@ -289,7 +333,7 @@ func Astrometric(helioTarget func(tdb astro.JD) (r3.Vec, error), utc astro.JD, o
 	if err != nil {
 		return Place{}, err
 	}
-	pl, err := placeAt(helioTarget, in, o)
+	pl, err := placeWith(helioTarget, in, o, sky)
 	if err != nil {
 		return Place{}, err
 	}
@@ -299,7 +343,13 @@ func Astrometric(helioTarget func(tdb astro.JD) (r3.Vec, error), utc astro.JD, o
 // placeAt computes the place for the instant in (which may come without a
 // UTC, for the geocentre).
 func placeAt(helioTarget func(tdb astro.JD) (r3.Vec, error), in instant, o Observer) (Place, error) {
-	st, err := stateOf(o.Site, in)
+	return placeWith(helioTarget, in, o, seriesSky{})
+}
+
+// placeWith is placeAt with the Earth, the Sun, the Moon and the equator of
+// date from sky.
+func placeWith(helioTarget func(tdb astro.JD) (r3.Vec, error), in instant, o Observer, sky skySource) (Place, error) {
+	st, err := stateWith(o.Site, in, sky)
 	if err != nil {
 		return Place{}, err
 	}
@@ -311,7 +361,8 @@ func placeAt(helioTarget func(tdb astro.JD) (r3.Vec, error), in instant, o Obser
 	pl.DeltaAU = r3.Norm(p)
 	pl.RAU = r3.Norm(h)
 	pl.RA, pl.Dec, _ = astro.Spherical(p)
-	app := astro.ApparentDirection(p, st.vel, in.tt)
+	// astro.ApparentDirection, with the matrix from sky
+	app := sky.npb(in.tt).MulVec(astro.Aberration(p, st.vel))
 	pl.RAApp, pl.DecApp, _ = astro.Spherical(app)
 
 	if pl.RAU > 0 {
@@ -322,10 +373,10 @@ func placeAt(helioTarget func(tdb astro.JD) (r3.Vec, error), in instant, o Obser
 		pl.Elongation = angleBetween(ps, p)
 		pl.PhaseAngle = angleBetween(r3.Scale(-1, h), r3.Scale(-1, p))
 	}
-	pl.MoonSeparation = angleBetween(moonSeen(st, in.tt), p)
+	pl.MoonSeparation = angleBetween(moonSeen(st, in.tt, sky), p)
 	if o.Site != nil {
 		pl.Topocentric = true
-		gast := astro.GreenwichApparentSiderealTime(in.ut1, in.tt)
+		gast := sky.gast(in.ut1, in.tt)
 		ha := astro.LocalHourAngle(astro.LocalSiderealTime(gast, o.Site.Lon), pl.RAApp)
 		az, alt := astro.EquatorialToHorizontal(ha, pl.DecApp, o.Site.Lat)
 		refracted := alt + refraction(alt, o)
@@ -346,9 +397,9 @@ func placeAt(helioTarget func(tdb astro.JD) (r3.Vec, error), in instant, o Obser
 //
 // (g the observer's geocentric position, Ė the Earth's barycentric velocity;
 // the Earth's acceleration over 1.3 s is negligible).
-func moonSeen(st observerState, tt astro.JD) r3.Vec {
-	tau := r3.Norm(r3.Sub(MoonGeocentricICRS(tt), st.geo)) / astro.SpeedOfLightAUDay
-	m := MoonGeocentricICRS(tt.AddDays(-tau))
+func moonSeen(st observerState, tt astro.JD, sky skySource) r3.Vec {
+	tau := r3.Norm(r3.Sub(sky.moon(tt), st.geo)) / astro.SpeedOfLightAUDay
+	m := sky.moon(tt.AddDays(-tau))
 	return r3.Sub(r3.Sub(m, r3.Scale(tau, st.earthVel)), st.geo)
 }
 
@@ -389,15 +440,21 @@ func refraction(alt astro.Angle, o Observer) astro.Angle {
 //
 // Reference: as [Astrometric]; Bretagnon & Francou (1988) for VSOP87.
 func PlaceOfBody(b Body, utc astro.JD, o Observer) (Place, error) {
+	return placeOfBodyWith(b, utc, o, seriesSky{})
+}
+
+// placeOfBodyWith is [PlaceOfBody] with the Earth, the Sun, the Moon and the
+// equator of date from sky.
+func placeOfBodyWith(b Body, utc astro.JD, o Observer, sky skySource) (Place, error) {
 	switch {
 	case b == Sun:
-		return Astrometric(sunHelio, utc, o)
+		return astrometricWith(sunHelio, utc, o, sky)
 	case b == Earth:
 		return Place{}, fmt.Errorf("ephem: the place of the Earth seen from the Earth is not defined")
 	case b.IsPlanet():
-		return Astrometric(planetHelio(b), utc, o)
+		return astrometricWith(planetHelio(b), utc, o, sky)
 	case b == Moon:
-		return Astrometric(moonHelio, utc, o)
+		return astrometricWith(moonHelioWith(sky), utc, o, sky)
 	}
 	return Place{}, fmt.Errorf("ephem: PlaceOfBody: %v is not a body", b)
 }
@@ -421,12 +478,36 @@ func moonHelio(tdb astro.JD) (r3.Vec, error) {
 	return r3.Add(e, MoonGeocentricICRS(ttScaled(tdb))), nil
 }
 
+// moonHelioWith is [moonHelio] with the Earth and the Moon from sky.
+func moonHelioWith(sky skySource) func(astro.JD) (r3.Vec, error) {
+	return func(tdb astro.JD) (r3.Vec, error) {
+		e, _, err := sky.earth(tdb)
+		if err != nil {
+			return r3.Vec{}, err
+		}
+		return r3.Add(e, sky.moon(ttScaled(tdb))), nil
+	}
+}
+
 // elementsHelio returns the heliocentric ICRS position function of an element
 // set: [Elements.StateAt] turned from the ecliptic J2000 by
 // [EclipticJ2000ToICRS].
 func elementsHelio(el Elements) func(astro.JD) (r3.Vec, error) {
+	if el.Validate() != nil {
+		return func(tdb astro.JD) (r3.Vec, error) {
+			p, _, err := el.StateAt(tdb)
+			return EclipticJ2000ToICRS.MulVec(p), err
+		}
+	}
+	// A valid set: StateAt without checking it again at every step of the
+	// light-time iteration, and with its Gaussian vectors computed once.
+	gp, gq := gaussianVectors(el.I, el.Node, el.Peri)
 	return func(tdb astro.JD) (r3.Vec, error) {
-		p, _, err := el.StateAt(tdb)
+		if !tbDynamicalDate(tdb) {
+			p, _, err := el.StateAt(tdb)
+			return EclipticJ2000ToICRS.MulVec(p), err
+		}
+		p, _, err := el.stateIn(tdb, gp, gq)
 		return EclipticJ2000ToICRS.MulVec(p), err
 	}
 }
@@ -452,10 +533,16 @@ const DefaultSlopeG = 0.15
 // Reference: as [Astrometric]; Meeus, Astronomical Algorithms, 2nd ed.,
 // ch. 33 (elliptic motion, light time).
 func PlaceOfElements(el Elements, utc astro.JD, o Observer) (Place, error) {
+	return placeOfElementsWith(el, utc, o, seriesSky{})
+}
+
+// placeOfElementsWith is [PlaceOfElements] with the Earth, the Sun, the Moon
+// and the equator of date from sky.
+func placeOfElementsWith(el Elements, utc astro.JD, o Observer, sky skySource) (Place, error) {
 	if err := el.Validate(); err != nil {
 		return Place{}, err
 	}
-	pl, err := Astrometric(elementsHelio(el), utc, o)
+	pl, err := astrometricWith(elementsHelio(el), utc, o, sky)
 	if err != nil && pl.DeltaAU == 0 {
 		return Place{}, err
 	}

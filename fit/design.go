@@ -28,11 +28,13 @@ type design struct {
 	np    int          // columns of the full design: 2q, plus 1 for the u column
 	basis []float64    // f_j(τ_i) of point i at basis[i*q : (i+1)*q]
 	chol  [][3]float64 // (l11, l21, l22) of point i (see cholesky2)
-	// rows holds point i's whitened ξ row at rows[2i·np:] and its η row
-	// right after; rhs its whitened ξ and η right-hand sides at rhs[2i:].
-	rows []float64
-	rhs  []float64
-	jinv [][2][2]float64 // inverse plane Jacobian of each point (plane → east, north)
+	// pts are the points the arrays were built for and uFixed the fixed
+	// inverse distance of the right-hand side (0 unless ParallaxFixed):
+	// with basis and chol they give each point's whitened rows, which
+	// rowsOf computes when a night is factorised rather than storing them.
+	pts    []Point
+	uFixed float64
+	jinv   [][2][2]float64 // inverse plane Jacobian of each point (plane → east, north)
 	// at maps the points of the track being fitted to the points the arrays
 	// above were built for (nil: the same points); see gather.
 	at []int
@@ -47,8 +49,10 @@ type workspace struct {
 	// pointChi2).
 	chi2 []float64
 	// The arrays of the design that holds the work space (see newDesign).
-	basis, rows, rhs []float64
-	chol             [][3]float64
+	basis []float64
+	chol  [][3]float64
+	jinv  [][2][2]float64 // when the design computed its own
+	row   []float64       // one point's two rows (rowsOf)
 	// nights is the night-by-night compression of the design's rows.
 	nights nightBlocks
 }
@@ -122,54 +126,67 @@ func newDesign(tr *Track, m Model, s Settings, fitU bool, jinv [][2][2]float64) 
 	ws.nights.owner = nil
 	ws.basis = grow(ws.basis, n*q)
 	ws.chol = grow(ws.chol, n)
-	ws.rows = grow(ws.rows, 2*n*np)
-	clear(ws.rows) // the η columns of ξ rows and the ξ columns of η rows stay 0
-	ws.rhs = grow(ws.rhs, 2*n)
+	ws.row = grow(ws.row, 2*np)
 	d := &design{
 		q:     q,
 		np:    np,
 		basis: ws.basis,
 		chol:  ws.chol,
-		rows:  ws.rows,
-		rhs:   ws.rhs,
+		pts:   tr.Points,
 		jinv:  jinv,
 		ws:    ws,
 	}
 	if len(d.jinv) != n {
-		d.jinv = planeJacobians(tr)
+		ws.jinv = grow(ws.jinv, n)
+		d.jinv = planeJacobiansTo(ws.jinv, tr)
 	}
-	uFixed := 0.0
 	if s.Parallax == ParallaxFixed {
-		uFixed = s.InvDistance
+		d.uFixed = s.InvDistance
 	}
 	for i, p := range tr.Points {
 		f := d.basis[i*q : (i+1)*q]
 		m.basis(f, p.T/tr.TimeScaleDays, tr.TimeScaleDays)
 		l11, l21, l22 := cholesky2(p)
 		d.chol[i] = [3]float64{l11, l21, l22}
-		rx := d.rows[2*i*np : (2*i+1)*np]
-		ry := d.rows[(2*i+1)*np : (2*i+2)*np]
-		// whitened ξ row: row/σξ
-		for j := 0; j < q; j++ {
-			rx[j] = f[j] / l11
-		}
-		// whitened η row: (row_η − l21·w_ξ)/l22
-		for j := 0; j < q; j++ {
-			ry[j] = -l21 * rx[j] / l22
-			ry[q+j] = f[j] / l22
-		}
-		bx := p.Xi + uFixed*p.SiteXi
-		by := p.Eta + uFixed*p.SiteEta
-		wx := bx / l11
-		d.rhs[2*i] = wx
-		d.rhs[2*i+1] = (by - l21*wx) / l22
-		if fitU {
-			ux := -p.SiteXi / l11
-			rx[np-1] = ux
-			ry[np-1] = (-p.SiteEta - l21*ux) / l22
-		}
 	}
 	return d
+}
+
+// rowsOf returns the whitened ξ and η rows of point k of the design (np
+// entries each, one after the other, in the work space) and their
+// right-hand sides:
+//
+//	ξ row: f/l11 (ξ columns), 0 (η columns), −SiteXi/l11 (u)
+//	η row: −l21·(ξ row)/l22, f/l22, (−SiteEta − l21·ux)/l22
+//	rhs:   wx = (ξ + uFixed·SiteXi)/l11, ((η + uFixed·SiteEta) − l21·wx)/l22
+//
+// (the ξ row divided by σξ, the η row whitened by L⁻¹, L the Cholesky factor
+// of cholesky2).
+func (d *design) rowsOf(k int) (rows []float64, bx, by float64) {
+	q, np := d.q, d.np
+	p := &d.pts[k]
+	f := d.basis[k*q : (k+1)*q]
+	c := d.chol[k]
+	l11, l21, l22 := c[0], c[1], c[2]
+	rows = d.ws.row[:2*np]
+	rx, ry := rows[:np], rows[np:]
+	// whitened ξ row: row/σξ
+	for j := 0; j < q; j++ {
+		rx[j] = f[j] / l11
+		rx[q+j] = 0
+	}
+	// whitened η row: (row_η − l21·w_ξ)/l22
+	for j := 0; j < q; j++ {
+		ry[j] = -l21 * rx[j] / l22
+		ry[q+j] = f[j] / l22
+	}
+	if np > 2*q {
+		ux := -p.SiteXi / l11
+		rx[np-1] = ux
+		ry[np-1] = (-p.SiteEta - l21*ux) / l22
+	}
+	wx := (p.Xi + d.uFixed*p.SiteXi) / l11
+	return rows, wx, ((p.Eta + d.uFixed*p.SiteEta) - l21*wx) / l22
 }
 
 // factorNights brings the night blocks of d up to date for the active
@@ -278,8 +295,21 @@ func (d *design) groupNights(tr *Track) {
 	nb.cols = 0 // the blocks are sized on first use
 }
 
+// nightChunkRows is the number of observation rows factorisation takes in at
+// a time (see factorNight): with the triangle carried from the rows before,
+// a chunk of at most 8 columns fits in a few tens of kilobytes, in cache.
+const nightChunkRows = 256
+
 // factorNight factorises the active rows of group g (the points members),
 // storing its block, its column sums of squares and the active flags.
+//
+// A night with more rows than columns is reduced chunk by chunk: the
+// triangle R and Qᵀb of the rows so far are stacked on the next
+// nightChunkRows rows and the stack is factorised again (a sequential
+// row-block update of the QR factorisation, Golub & Van Loan, Matrix
+// Computations, 4th ed. (2013), §6.5.3; exact algebra for the same reason as
+// the night blocks of [design.factorNights]), so that the work stays in cache
+// however many rows the night has.
 func (d *design) factorNight(g int, members []int, active []bool, cols int) {
 	nb := &d.ws.nights
 	ws := d.ws
@@ -289,45 +319,74 @@ func (d *design) factorNight(g int, members []int, active []bool, cols int) {
 			rows += 2
 		}
 	}
-	ws.a = grow(ws.a, rows*cols)
-	ws.b = grow(ws.b, rows)
-	a, b := ws.a, ws.b
 	ss := nb.ss[g*cols : (g+1)*cols]
 	clear(ss)
-	r := 0
+	blk := nb.r[g*cols*cols : (g+1)*cols*cols]
+	rhs := nb.c[g*cols : (g+1)*cols]
+	if rows <= cols {
+		r := 0
+		for _, i := range members {
+			nb.state[i] = active[i]
+			if !active[i] {
+				continue
+			}
+			r += d.copyRows(blk[r*cols:], rhs[r:], i, cols, ss)
+		}
+		nb.nr[g] = rows
+		nb.valid[g] = true
+		return
+	}
+	size := cols + nightChunkRows
+	ws.a = grow(ws.a, size*cols)
+	ws.b = grow(ws.b, size)
+	a, b := ws.a, ws.b
+	top, r := 0, 0 // rows of the carried triangle; rows in the buffer
+	flush := func() {
+		d.qrFactor(a, b, r, cols)
+		k := min(r, cols)
+		for i := 0; i < k; i++ { // keep R (zero below the diagonal) and (Qᵀb)₁..k
+			row := a[i*cols : (i+1)*cols]
+			clear(row[:i])
+		}
+		top, r = k, k
+	}
 	for _, i := range members {
 		nb.state[i] = active[i]
 		if !active[i] {
 			continue
 		}
-		k := d.src(i)
-		for c := 0; c < 2; c++ {
-			dst := a[(r+c)*cols : (r+c+1)*cols]
-			src := d.rows[(2*k+c)*d.np:][:cols]
-			for j, v := range src {
-				dst[j] = v
-				ss[j] += v * v
-			}
+		if r+2 > size {
+			flush()
 		}
-		b[r], b[r+1] = d.rhs[2*k], d.rhs[2*k+1]
-		r += 2
+		r += d.copyRows(a[r*cols:], b[r:], i, cols, ss)
 	}
-	blk := nb.r[g*cols*cols : (g+1)*cols*cols]
-	rhs := nb.c[g*cols : (g+1)*cols]
-	if rows <= cols {
-		copy(blk, a)
-		copy(rhs, b)
-		nb.nr[g] = rows
-	} else {
-		d.qrFactor(a, b, rows, cols)
-		clear(blk)
-		for i := 0; i < cols; i++ {
-			copy(blk[i*cols+i:(i+1)*cols], a[i*cols+i:(i+1)*cols])
-		}
-		copy(rhs, b[:cols])
-		nb.nr[g] = cols
+	if r > top {
+		flush()
 	}
+	clear(blk)
+	for i := 0; i < cols; i++ {
+		copy(blk[i*cols+i:(i+1)*cols], a[i*cols+i:(i+1)*cols])
+	}
+	copy(rhs, b[:cols])
+	nb.nr[g] = cols
 	nb.valid[g] = true
+}
+
+// copyRows copies point i's two whitened rows (their first cols columns)
+// to dst and their right-hand sides to rhs, adds their squares into ss and
+// returns 2.
+func (d *design) copyRows(dst, rhs []float64, i, cols int, ss []float64) int {
+	rows, bx, by := d.rowsOf(d.src(i))
+	for c := 0; c < 2; c++ {
+		out := dst[c*cols : (c+1)*cols]
+		src := rows[c*d.np:][:cols]
+		for j, v := range src {
+			out[j] = v
+			ss[j] += v * v
+		}
+	}
+	rhs[0], rhs[1] = bx, by
+	return 2
 }
 
 // stackSolve stacks the blocks of the nights with active points (as

@@ -13,25 +13,28 @@ import (
 // the arc and the prediction horizon together exceed it, the planets matter
 // and the nbody fit replaces the two-body one.
 //
-// The figure is a measurement (recorded in docs/models.md): an invented
-// main-belt orbit (a = 2.61 au, e = 0.17, i = 9.3°) at eight phases of its
-// orbit and of Jupiter's, observed three times a night every other night
-// with 1″ amateur σ, noise-free places from the n-body integration, fitted
-// with two-body motion and predicted. The two-body prediction's bias
-// against the perturbed truth, median (and worst) of the eight, by span =
-// arc + horizon:
+// The figure is a measurement (fit/orbit's TestNBodySpanMeasurement reruns
+// it; docs/models.md has the table): an invented main-belt orbit
+// (a = 2.61 au, e = 0.17, i = 9.3°) at eight phases of its orbit and node,
+// observed three times a night every other night with 1″ stated σ (an
+// amateur's), noise-free places from the n-body integration, fitted with
+// two-body motion and predicted. The two-body prediction's bias against the
+// perturbed truth, median of the eight (and the worst in the two-body
+// region's own σ), by arc and span = arc + horizon:
 //
-//	span 30 d:  0.01–0.05″ (0.02–3.6″)
-//	span 60 d:  0.07–0.35″ (0.15–19″)
-//	span 90 d:  0.14–1.4″  (1.1–46″)
-//	span 180 d: 3–7″       (13–190″)
+//	arc  3 d:  span 33 d 0.04″,  63 d 0.35″,  93 d 1.3″,  183 d 6.8″  (all < 0.03σ)
+//	arc 14 d:  span 29 d 0.01″,  74 d 0.28″ (0.18σ),  104 d 1.1″ (0.32σ)
+//	arc 30 d:  span 30 d 0.001″, 60 d 0.06″ (0.47σ),  90 d 0.35″ (0.97σ), 120 d 1.3″ (1.7σ)
+//	arc 60 d:  span 60 d 0.007″ (0.59σ),  90 d 0.10″ (2.3σ),  120 d 0.60″ (4.1σ)
+//	arc 90 d:  span 90 d 0.02″ (2.2σ),  120 d 0.17″ (6.2σ)
 //
-// Against the two-body region's own σ the worst case reaches half a σ at
-// 60 d for arcs of 30–60 days (0.48σ, 0.59σ), and a σ or more beyond 90 d;
-// shorter arcs have regions too wide for the bias to show. From 60 days on,
-// then, the planets' pull is as large as an amateur's σ at worst and the
-// two-body region starts to miss: the perturbed orbit, which costs a few
-// tens of milliseconds more, is used.
+// Up to about 40 days the bias is below 0.05″, a twentieth of the amateur
+// σ. From 60 days on the worst case reaches half the region's σ for arcs
+// of 30–60 days, and beyond it several σ: the two-body region starts to
+// miss; a short arc's region is wide enough to hold the bias, but its
+// centre is off by a third of an arcsecond and more (worst cases tens of
+// arcseconds) for a horizon of two months. So from a span of 60 days the
+// perturbed orbit, which costs a few tens of milliseconds more, is used.
 const NBodySpanDays = 60
 
 // nbodyNeed says whether the planets matter for an orbit fit of a track
@@ -77,7 +80,7 @@ func planetsMatter(tr *Track, kf *OrbitFit, at []astro.JD) nbodyNeed {
 		if p, err := st.Propagate(ts, false); err == nil {
 			for _, e := range mergeEncounters(p.Encounters) {
 				n.need = true
-				n.reason = "the orbit passes " + EncounterWords(e) + ", during the arc or before the prediction"
+				n.reason = "the two-body orbit, integrated with the planets, passes " + EncounterWords(e) + ", during the arc or before the prediction"
 				return n
 			}
 		}
@@ -195,7 +198,7 @@ func EncounterUTC(e orbit.Encounter) string {
 	if err != nil && utc == (astro.JD{}) {
 		return astro.FormatISO8601(e.TDB, encounterTimeDigs) + " TDB"
 	}
-	s := astro.FormatISO8601(utc, encounterTimeDigs)
+	s := astro.FormatISO8601(utc.AddSeconds(30), encounterTimeDigs) // rounded to the minute below
 	// To the minute: drop the seconds.
 	if i := strings.LastIndex(s, ":"); i > 0 && strings.HasSuffix(s, "Z") && i > strings.Index(s, "T")+3 {
 		s = s[:i] + "Z"

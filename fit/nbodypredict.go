@@ -141,9 +141,16 @@ func (f *OrbitFit) makeAnchor(k nbodyKey) (*nbodyAnchor, error) {
 	return a, nil
 }
 
+// nbodyPrefetch are the anchors, relative to the one asked for, to which a
+// sampled orbit is integrated at once: the night's other cell and the next
+// three days' (a search for the next observable nights goes forward a day
+// at a time). The extra instants cost a few short steps of an integration
+// whose length is set by the distance from the epoch.
+var nbodyPrefetch = []int64{0, -1, 1, 2, 3, 4, 5, 6}
+
 // movedSamples returns the orbit's samples of method moved to anchor k:
-// integrated once (in parallel) to the anchor and its two neighbours of the
-// same level, which a night's predictions usually need next.
+// integrated once (in parallel) to the anchor and its neighbours of the
+// same level (nbodyPrefetch), which a night's predictions usually need next.
 func (f *OrbitFit) movedSamples(method string, k nbodyKey) (*orbit.OrbitSamples, error) {
 	c := f.cache()
 	c.mu.Lock()
@@ -152,7 +159,10 @@ func (f *OrbitFit) movedSamples(method string, k nbodyKey) (*orbit.OrbitSamples,
 		return s, nil
 	}
 	c.mu.Unlock()
-	keys := []nbodyKey{k, {k.level, k.i - 1}, {k.level, k.i + 1}}
+	keys := make([]nbodyKey, len(nbodyPrefetch))
+	for j, d := range nbodyPrefetch {
+		keys[j] = nbodyKey{k.level, k.i + d}
+	}
 	if err := f.moveSamples(method, keys); err != nil {
 		return nil, err
 	}

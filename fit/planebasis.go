@@ -70,10 +70,31 @@ func localEastNorth(u r3.Vec) (e, n r3.Vec) {
 // identity; 1° away it departs from a rotation by parts in 10⁴ (the
 // 1/cos ρ and 1/cos² ρ scales of the gnomonic projection) and the rotation
 // angle is the convergence of the meridians, about Δα sin δ.
+//
+// It is computed in closed form from the expressions of direction,
+// gradients and localEastNorth: with ρ = √(1 + ξ² + η²) (|P0 + ξE0 + ηN0|,
+// the three axes being orthonormal), u = (P0 + ξE0 + ηN0)/ρ, u·P0 = 1/ρ, so
+// gξ = ρ(E0 − ξP0), gη = ρ(N0 − ηP0); with h = √(u_x² + u_y²) the local east
+// is (−u_y, u_x, 0)/h and north u × east = (−u_z u_x/h, −u_z u_y/h, h). This
+// is the same algebra without the square roots of the general vector norms
+// (it differs from composing the three functions by rounding only), which
+// makes it cheap enough to run for every point of a large fit.
 func (f planeFrame) skyToPlane(xi, eta float64) [2][2]float64 {
-	u := f.direction(xi, eta)
-	gx, ge := f.gradients(u)
-	e, n := localEastNorth(u)
+	rho := math.Sqrt(1 + xi*xi + eta*eta)
+	ir := 1 / rho
+	ux := (f.p0.X + xi*f.e0.X + eta*f.n0.X) * ir
+	uy := (f.p0.Y + xi*f.e0.Y + eta*f.n0.Y) * ir
+	uz := (f.p0.Z + xi*f.e0.Z + eta*f.n0.Z) * ir
+	gx := r3.Scale(rho, r3.Sub(f.e0, r3.Scale(xi, f.p0)))
+	ge := r3.Scale(rho, r3.Sub(f.n0, r3.Scale(eta, f.p0)))
+	var e, n r3.Vec
+	if h := math.Sqrt(ux*ux + uy*uy); h < 1e-15 {
+		e, n = localEastNorth(r3.Vec{X: ux, Y: uy, Z: uz}) // at a pole
+	} else {
+		ih := 1 / h
+		e = r3.Vec{X: -uy * ih, Y: ux * ih}
+		n = r3.Vec{X: -uz * ux * ih, Y: -uz * uy * ih, Z: h}
+	}
 	return [2][2]float64{
 		{r3.Dot(gx, e), r3.Dot(gx, n)},
 		{r3.Dot(ge, e), r3.Dot(ge, n)},

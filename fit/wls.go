@@ -298,9 +298,25 @@ func distinctTimes(tr *Track, active []bool) int {
 	return n
 }
 
+// distinctTimesUpTo counts the active points at distinct times, stopping at
+// limit: it returns min(distinctTimes(tr, active), limit) without sorting
+// (a track of a million points reaches a small limit in its first points).
+func distinctTimesUpTo(tr *Track, active []bool, limit int) int {
+	seen := make([]float64, 0, limit)
+	for i, p := range tr.Points {
+		if !active[i] || slices.Contains(seen, p.T) {
+			continue
+		}
+		if seen = append(seen, p.T); len(seen) >= limit {
+			break
+		}
+	}
+	return len(seen)
+}
+
 func checkCount(tr *Track, m Model, fitU bool, active []bool) error {
-	have := distinctTimes(tr, active)
 	need := needFor(m, fitU)
+	have := distinctTimesUpTo(tr, active, need) // exact when below need
 	if have >= need {
 		return nil
 	}
@@ -520,12 +536,17 @@ func (s *Solution) PointResidual(p Point) Residual {
 // planeJacobians returns, for every point of tr, the inverse of the
 // projection's Jacobian at the point (plane offsets → east, north).
 func planeJacobians(tr *Track) [][2][2]float64 {
+	return planeJacobiansTo(make([][2][2]float64, len(tr.Points)), tr)
+}
+
+// planeJacobiansTo is planeJacobians into dst (len(tr.Points) long).
+func planeJacobiansTo(dst [][2][2]float64, tr *Track) [][2][2]float64 {
 	frame := newPlaneFrame(tr.Plane)
-	out := make([][2][2]float64, len(tr.Points))
-	for i, p := range tr.Points {
-		out[i] = inv2(frame.skyToPlane(p.Xi, p.Eta))
+	for i := range tr.Points {
+		p := &tr.Points[i]
+		dst[i] = inv2(frame.skyToPlane(p.Xi, p.Eta))
 	}
-	return out
+	return dst
 }
 
 func (s *Solution) pointResidual(p Point, jinv [2][2]float64) Residual {

@@ -4,6 +4,7 @@ import (
 	"path/filepath"
 	"testing"
 
+	"arcfit/ephem"
 	"arcfit/fit"
 )
 
@@ -32,5 +33,17 @@ func BenchmarkFitPoly2(b *testing.B) {
 				}
 			}
 		})
+	}
+}
+
+// BenchmarkElementsTable times the element-set table of bench/compare.sh
+// (100,000 rows at 10-minute steps, geocentric).
+func BenchmarkElementsTable(b *testing.B) {
+	el := peerElements
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := table(ephem.TableTarget{Elements: &el}, 100000, elementsStepDays); err != nil {
+			b.Fatal(err)
+		}
 	}
 }

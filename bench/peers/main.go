@@ -28,6 +28,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"os"
+	"runtime"
 	"slices"
 	"strconv"
 	"syscall"
@@ -193,45 +194,69 @@ func readFitInput(path string) (*fit.Track, error) {
 
 // result is what a benchmark prints.
 type result struct {
-	Case     string    `json:"case"`
-	N        int       `json:"n"`
-	Reps     int       `json:"reps"`
-	MedianS  float64   `json:"median_s"`
-	MinS     float64   `json:"min_s"`
-	TimesS   []float64 `json:"times_s"`
-	MaxRSSKB int64     `json:"max_rss_kb"`
-	Workers  int       `json:"workers"`
-	Params   []float64 `json:"params,omitempty"`
-	Note     string    `json:"note,omitempty"`
+	Case    string    `json:"case"`
+	N       int       `json:"n"`
+	Reps    int       `json:"reps"`
+	MedianS float64   `json:"median_s"`
+	MinS    float64   `json:"min_s"`
+	TimesS  []float64 `json:"times_s"`
+	// CPUMedianS is the median of the process CPU time (user + system, all
+	// threads) of each repetition.
+	CPUMedianS float64   `json:"cpu_median_s"`
+	CPUTimesS  []float64 `json:"cpu_times_s"`
+	MaxRSSKB   int64     `json:"max_rss_kb"`
+	Workers    int       `json:"workers"`
+	Params     []float64 `json:"params,omitempty"`
+	Note       string    `json:"note,omitempty"`
 }
 
-// timeIt runs f reps times and returns the wall times in seconds.
-func timeIt(reps int, f func() error) ([]float64, error) {
-	if reps < 1 {
-		return nil, errors.New("want at least one repetition")
+// times are the wall and CPU times of the repetitions, seconds.
+type times struct{ wall, cpu []float64 }
+
+// cpuSeconds returns the CPU time the process has used (user + system).
+func cpuSeconds() float64 {
+	var ru syscall.Rusage
+	if err := syscall.Getrusage(syscall.RUSAGE_SELF, &ru); err != nil {
+		return math.NaN()
 	}
-	ts := make([]float64, reps)
-	for i := range ts {
-		start := time.Now()
+	tv := func(t syscall.Timeval) float64 { return float64(t.Sec) + float64(t.Usec)*1e-6 }
+	return tv(ru.Utime) + tv(ru.Stime)
+}
+
+// timeIt runs f reps times and returns the wall and CPU times.
+func timeIt(reps int, f func() error) (times, error) {
+	if reps < 1 {
+		return times{}, errors.New("want at least one repetition")
+	}
+	ts := times{wall: make([]float64, reps), cpu: make([]float64, reps)}
+	for i := range reps {
+		start, c0 := time.Now(), cpuSeconds()
 		if err := f(); err != nil {
-			return nil, err
+			return times{}, err
 		}
-		ts[i] = time.Since(start).Seconds()
+		ts.wall[i] = time.Since(start).Seconds()
+		ts.cpu[i] = cpuSeconds() - c0
 	}
 	return ts, nil
 }
 
-// finish fills the statistics and the peak memory and prints r.
-func finish(r result, ts []float64) error {
-	r.TimesS = ts
-	r.Reps = len(ts)
-	s := slices.Clone(ts)
+// median returns the median of v.
+func median(v []float64) float64 {
+	s := slices.Clone(v)
 	slices.Sort(s)
-	r.MinS = s[0]
-	r.MedianS = s[len(s)/2]
 	if len(s)%2 == 0 {
-		r.MedianS = (s[len(s)/2-1] + s[len(s)/2]) / 2
+		return (s[len(s)/2-1] + s[len(s)/2]) / 2
 	}
+	return s[len(s)/2]
+}
+
+// finish fills the statistics and the peak memory and prints r.
+func finish(r result, ts times) error {
+	r.TimesS, r.CPUTimesS = ts.wall, ts.cpu
+	r.Reps = len(ts.wall)
+	r.MinS = slices.Min(ts.wall)
+	r.MedianS = median(ts.wall)
+	r.CPUMedianS = median(ts.cpu)
 	var ru syscall.Rusage
 	if err := syscall.Getrusage(syscall.RUSAGE_SELF, &ru); err == nil {
 		r.MaxRSSKB = int64(ru.Maxrss) // kilobytes on Linux
@@ -428,4 +453,4 @@ func benchSunMoon(rows, reps int, prefix string) error {
 }
 
 // workers is the number of goroutines the library's table uses.
-func workers() int { return 1 }
+func workers() int { return runtime.GOMAXPROCS(0) }

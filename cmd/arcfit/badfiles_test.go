@@ -4,6 +4,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"runtime"
 	"sort"
 	"strconv"
 	"strings"
@@ -21,9 +22,12 @@ var badFileKinds = []string{"missing", "empty", "unreadable", "truncated"}
 type badInputs struct {
 	dir  string
 	good map[string]string // kind of file → path of a good one
-	// unreadableAsDir is set when chmod 000 does not stop this process from
-	// reading (it runs as root): a directory stands for the unreadable file.
-	unreadableAsDir bool
+	// unreadable is how an unreadable file is made: "chmod" (mode 000), or,
+	// where that does not stop this process from reading (it runs as root),
+	// "proc" (a symbolic link to /proc/self/mem, which opens but whose first
+	// read fails with an I/O error on Linux), or else "dir" (a directory at
+	// the path: opens, and reading fails).
+	unreadable string
 }
 
 // newBadInputs writes the good files into a temporary directory.
@@ -41,7 +45,10 @@ func newBadInputs(t *testing.T) *badInputs {
 	write("sites", "sites.csv", demo.Sites())
 	write("elements", "elements.csv", demo.Elements())
 	fitPath := filepath.Join(b.dir, "fit.json")
-	if code, _, errs := runArgs(t, "fit", b.good["obs"], "--sites", b.good["sites"], "--save", fitPath); code != exitOK {
+	// A sky-plane fit (poly2): a fitted orbit's Monte Carlo regions would
+	// make the runs with good files seconds long; the fit-file reader is
+	// the same for both (FuzzParseFitFile covers the orbit).
+	if code, _, errs := runArgs(t, "fit", b.good["obs"], "--sites", b.good["sites"], "--model", "poly2", "--save", fitPath); code != exitOK {
 		t.Fatalf("fit --save: code %d: %s", code, errs)
 	}
 	b.good["fit"] = fitPath
@@ -51,9 +58,13 @@ func newBadInputs(t *testing.T) *badInputs {
 	if err := os.WriteFile(probe, []byte("x"), 0o000); err != nil {
 		t.Fatal(err)
 	}
+	b.unreadable = "chmod"
 	if _, err := os.ReadFile(probe); err == nil {
-		b.unreadableAsDir = true
-		t.Logf("chmod 000 does not stop reading here (running as root): a directory stands for an unreadable file")
+		b.unreadable = "dir"
+		if _, err := os.ReadFile("/proc/self/mem"); err != nil && runtime.GOOS == "linux" {
+			b.unreadable = "proc"
+		}
+		t.Logf("chmod 000 does not stop reading here (running as root): an unreadable file is made as %q", b.unreadable)
 	}
 	return b
 }
@@ -80,6 +91,9 @@ func (b *badInputs) bad(t *testing.T, kind, how string) string {
 	t.Helper()
 	good := b.good[kind]
 	p := filepath.Join(b.dir, how+"-"+filepath.Base(good))
+	if err := os.RemoveAll(p); err != nil { // made afresh for each case
+		t.Fatal(err)
+	}
 	switch how {
 	case "missing":
 		return filepath.Join(b.dir, "no-such-"+filepath.Base(good))
@@ -88,7 +102,13 @@ func (b *badInputs) bad(t *testing.T, kind, how string) string {
 			t.Fatal(err)
 		}
 	case "unreadable":
-		if b.unreadableAsDir {
+		switch b.unreadable {
+		case "proc":
+			if err := os.Symlink("/proc/self/mem", p); err != nil {
+				t.Fatal(err)
+			}
+			return p
+		case "dir":
 			if err := os.MkdirAll(p, 0o755); err != nil {
 				t.Fatal(err)
 			}
@@ -123,13 +143,13 @@ type badFileCase struct {
 var badFileCases = []badFileCase{
 	{"inspect OBS", "obs", []string{"inspect", "IN", "--sites", "SITES"}},
 	{"inspect --sites", "sites", []string{"inspect", "OBS", "--sites", "IN"}},
-	{"fit OBS", "obs", []string{"fit", "IN", "--sites", "SITES", "--save", "OUT/fit.json", "--chart", "OUT/region.png", "--compare-chart", "OUT/models.svg"}},
-	{"fit --sites", "sites", []string{"fit", "OBS", "--sites", "IN", "--save", "OUT/fit.json", "--chart", "OUT/region.png"}},
-	{"predict OBS", "obs", []string{"predict", "IN", "--sites", "SITES", "--site", "Alder Ridge", "--at", "2027-02-20T04:00:00Z"}},
+	{"fit OBS", "obs", []string{"fit", "IN", "--sites", "SITES", "--model", "poly2", "--save", "OUT/fit.json", "--chart", "OUT/region.png", "--compare-chart", "OUT/models.svg"}},
+	{"fit --sites", "sites", []string{"fit", "OBS", "--sites", "IN", "--model", "poly2", "--save", "OUT/fit.json", "--chart", "OUT/region.png"}},
+	{"predict OBS", "obs", []string{"predict", "IN", "--sites", "SITES", "--model", "poly2", "--site", "Alder Ridge", "--at", "2027-02-20T04:00:00Z"}},
 	{"predict FIT", "fit", []string{"predict", "IN", "--at", "2027-02-20T04:00:00Z"}},
 	{"predict --elements", "elements", []string{"predict", "--elements", "IN", "--at", "2027-02-20T04:00:00Z"}},
-	{"predict --sites", "sites", []string{"predict", "OBS", "--sites", "IN", "--site", "Alder Ridge", "--at", "2027-02-20T04:00:00Z"}},
-	{"night OBS", "obs", []string{"night", "IN", "--sites", "SITES", "--site", "Alder Ridge", "--date", "2027-02-20", "--chart", "OUT/night.png"}},
+	{"predict --sites", "sites", []string{"predict", "OBS", "--sites", "IN", "--model", "poly2", "--site", "Alder Ridge", "--at", "2027-02-20T04:00:00Z"}},
+	{"night OBS", "obs", []string{"night", "IN", "--sites", "SITES", "--model", "poly2", "--site", "Alder Ridge", "--date", "2027-02-20", "--chart", "OUT/night.png"}},
 	{"night FIT", "fit", []string{"night", "IN", "--site", "44.52,-72.80,410", "--date", "2027-02-20", "--chart", "OUT/night.svg"}},
 	{"night --elements", "elements", []string{"night", "--elements", "IN", "--site", "44.52,-72.80,410", "--date", "2027-02-20", "--chart", "OUT/night.png"}},
 	{"night --sites", "sites", []string{"night", "--sites", "IN", "--site", "Alder Ridge", "--date", "2027-02-20", "--chart", "OUT/night.png"}},
@@ -224,7 +244,7 @@ func TestBadInputFiles(t *testing.T) {
 func TestBadOutputPlaces(t *testing.T) {
 	checkBadOutputPlaces(t, func(obs, sites, el, dir, aFile, aDir, nowhere string) []badPlaceCase {
 		return []badPlaceCase{
-			{"fit --chart in no directory", []string{"fit", obs, "--sites", sites, "--chart", filepath.Join(dir, "no-such-dir", "c.png")}, "no-such-dir"},
+			{"fit --chart in no directory", []string{"fit", obs, "--sites", sites, "--model", "poly2", "--chart", filepath.Join(dir, "no-such-dir", "c.png")}, "no-such-dir"},
 			{"night --chart DIR.png", []string{"night", "--elements", el, "--site", "44.52,-72.80,410", "--date", "2027-02-20", "--chart", aDir + ".png/x.png"}, aDir + ".png"},
 			{"simulate --out DIR", []string{"simulate", el, "--site", "44.52,-72.80,410", "--nights", "2027-02-20", "--out", aDir}, aDir},
 			{"simulate --out in no directory", []string{"simulate", el, "--site", "44.52,-72.80,410", "--nights", "2027-02-20", "--out", nowhere}, nowhere},
@@ -242,9 +262,9 @@ func TestBadOutputPlaces(t *testing.T) {
 func TestFitSaveBadPlace(t *testing.T) {
 	checkBadOutputPlaces(t, func(obs, sites, el, dir, aFile, aDir, nowhere string) []badPlaceCase {
 		return []badPlaceCase{
-			{"fit --save DIR", []string{"fit", obs, "--sites", sites, "--save", aDir}, aDir},
-			{"fit --save in no directory", []string{"fit", obs, "--sites", sites, "--save", nowhere}, nowhere},
-			{"fit --chart FILE --save in no directory", []string{"fit", obs, "--sites", sites, "--chart", filepath.Join(dir, "c.png"), "--save", nowhere}, nowhere},
+			{"fit --save DIR", []string{"fit", obs, "--sites", sites, "--model", "poly2", "--save", aDir}, aDir},
+			{"fit --save in no directory", []string{"fit", obs, "--sites", sites, "--model", "poly2", "--save", nowhere}, nowhere},
+			{"fit --chart FILE --save in no directory", []string{"fit", obs, "--sites", sites, "--model", "poly2", "--chart", filepath.Join(dir, "c.png"), "--save", nowhere}, nowhere},
 		}
 	})
 }

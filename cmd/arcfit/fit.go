@@ -98,7 +98,7 @@ func modelFlags(fs *pflag.FlagSet, o *modelOptions) {
 	fs.StringVar(&o.sitesFile, "sites", "", "`file` of sites, CSV name,lat_deg,lon_deg,height_m (WGS84, east positive)")
 	fs.StringVar(&o.format, "format", "", "observation `format`, csv or ades-psv (default: recognised from the content)")
 	fs.Float64Var(&o.obsSigmaArcsec, "obs-sigma", 0, "1-sigma uncertainty in `arcsec` for observations without one (default 1)")
-	fs.StringVar(&o.model, "model", "auto", "`model`: auto, poly1, poly2, poly3 or piecewise")
+	fs.StringVar(&o.model, "model", "auto", "`model`: auto, poly1, poly2, poly3, piecewise, kepler or nbody")
 	fs.BoolVar(&o.keepAll, "keep-all", false, "flag no outliers: every observation is used")
 	fs.Float64Var(&o.distanceAU, "distance", 0, "fixed distance of the object in `au` for the parallax, instead of fitting it")
 	fs.BoolVar(&o.noParallax, "no-parallax", false, "leave the diurnal parallax out (fit the positions as if geocentric)")
@@ -147,7 +147,7 @@ func (o modelOptions) check() (model string, err error) {
 	}
 	name, err := fit.ParseModelName(o.model)
 	if err != nil {
-		return "", usagef("--model %q: want auto, poly1, poly2, poly3 or piecewise", o.model)
+		return "", usagef("--model %q: want auto, poly1, poly2, poly3, piecewise, kepler or nbody", o.model)
 	}
 	return name, nil
 }
@@ -207,7 +207,9 @@ func analyse(o modelOptions, data []byte, at []astro.JD, site *astro.Site, sites
 	a.track = tr
 	a.warnings = append(a.warnings, tr.Warnings...)
 	models := fit.CandidateModelsWith(tr, s)
-	if model != "auto" && !hasModel(models, model) {
+	if model == "nbody" {
+		models = append(models, fit.NBody()) // fitted by Compare, from the kepler row's orbit
+	} else if model != "auto" && !hasModel(models, model) {
 		// Not a candidate: fit it alone for the reason (too few
 		// observations, no gap for a knot).
 		m := fit.Poly(1)
@@ -573,7 +575,7 @@ func writeFitJSON(w io.Writer, a *analysis, o fitOptions) error {
 				flagged[r.Index] = true
 			}
 		}
-		or := orbitRecord(of)
+		or := orbitRecord(of, predictionTimes(a.cmp))
 		j.Orbit, j.Elements, j.ElementsSigma = &or, &or.Elements, &or.ElementsSigma
 		j.Knots = []float64{}
 	}
@@ -648,7 +650,7 @@ func writeFitText(w io.Writer, a *analysis, o fitOptions) error {
 		a.set.File, len(a.set.Obs), plural(len(a.set.Obs)), ch.nUsed, nFlagged, tr.NumNights, plural(tr.NumNights), last-first)
 	chosenName := sol.Model.String()
 	if a.cmp.Orbit != nil {
-		chosenName = "kepler (a two-body orbit about the Sun)"
+		chosenName = orbitChosenName(a.cmp.Orbit)
 	}
 	p("chosen model: %s\n  %s\n", chosenName, wrapIndent(a.cmp.Reason, 76, "  "))
 	p("fit: rms %.3f\" per coordinate (RA·cos δ and Dec pooled), χ²/dof %s on %d degrees of freedom, condition number %.3g\n",
@@ -657,7 +659,7 @@ func writeFitText(w io.Writer, a *analysis, o fitOptions) error {
 		p("  the residuals are larger than the stated σ allow: covariance scaled by χ²/dof = %.2f (σ × %.2f)\n", ch.chi2DoF, math.Sqrt(ch.chi2DoF))
 	}
 	if of := a.cmp.Orbit; of != nil {
-		writeOrbitText(w, of)
+		writeOrbitText(w, of, predictionTimes(a.cmp))
 		p("\n")
 	} else {
 		switch d := inverseDistance(sol); {
@@ -680,7 +682,7 @@ func writeFitText(w io.Writer, a *analysis, o fitOptions) error {
 		}
 	}
 	if a.cmp.Orbit != nil {
-		p("validity: a two-body orbit has no polynomial horizon; its search region grows with the distance from the arc\n")
+		p("validity: %s\n", orbitValidity(a.cmp.Orbit))
 	} else if !math.IsNaN(a.cmp.HorizonDays) {
 		p("validity horizon: %.3g d before the first and %.3g d after the last observation\n  %s\n",
 			a.cmp.HorizonBeforeDays, a.cmp.HorizonAfterDays, wrapIndent(a.cmp.HorizonRule, 76, "  "))

@@ -57,24 +57,102 @@ type orbitJSONOf struct {
 	G             *float64         `json:"g"`
 	Start         string           `json:"start_method"`
 	ElementsNote  string           `json:"elements_note"`
+	// Dynamics is "twobody" (model kepler) or "nbody"; ElementsKind says
+	// the elements are osculating at the epoch.
+	Dynamics     string `json:"dynamics"`
+	ElementsKind string `json:"elements_kind"`
+	// Encounters are the perturbed orbit's close approaches through the arc
+	// and to the predictions (nbody only).
+	Encounters []encounterJSON `json:"encounters,omitempty"`
 }
 
-// orbitRecord returns the orbit part of fit --json.
-func orbitRecord(of *fit.OrbitFit) orbitJSONOf {
+// encounterJSON is a close approach in the JSON of fit, predict and night.
+type encounterJSON struct {
+	Body       string  `json:"body"`
+	TimeUTC    string  `json:"time_utc"`
+	DistanceAU float64 `json:"distance_au"`
+	// Words says it in plain words (fit.EncounterWords).
+	Words string `json:"text"`
+}
+
+// encounterRecords returns the close approaches of an orbit fit through
+// its arc and to the instants at: an empty list for a perturbed orbit that
+// has none, nil for two-body motion (no field printed).
+func encounterRecords(of *fit.OrbitFit, at []astro.JD) []encounterJSON {
+	if of == nil || of.Dynamics() != "nbody" {
+		return nil
+	}
+	out := []encounterJSON{}
+	for _, e := range of.Encounters(at...) {
+		out = append(out, encounterJSON{Body: e.Body, TimeUTC: fit.EncounterUTC(e), DistanceAU: e.DistanceAU, Words: fit.EncounterWords(e)})
+	}
+	return out
+}
+
+// writeEncounters prints the close approaches, one line each, under a
+// heading (nothing for none).
+func writeEncounters(w io.Writer, indent string, es []encounterJSON) {
+	for _, e := range es {
+		fmt.Fprintf(w, "%sclose approach: %s\n", indent, e.Words)
+	}
+}
+
+// predictionTimes returns the instants of the comparison's predictions (fit
+// --at).
+func predictionTimes(c *fit.Comparison) []astro.JD {
+	for _, r := range c.Rows {
+		if len(r.Preds) > 0 {
+			ts := make([]astro.JD, len(r.Preds))
+			for i, p := range r.Preds {
+				ts[i] = p.UTC
+			}
+			return ts
+		}
+	}
+	return nil
+}
+
+// orbitChosenName names the chosen orbit model for fit's text.
+func orbitChosenName(of *fit.OrbitFit) string {
+	if of.Dynamics() == "nbody" {
+		return "nbody (an orbit about the Sun perturbed by the planets and the Moon)"
+	}
+	return "kepler (a two-body orbit about the Sun)"
+}
+
+// orbitValidity is fit's validity line for an orbit model.
+func orbitValidity(of *fit.OrbitFit) string {
+	if of.Dynamics() == "nbody" {
+		return "a perturbed orbit has no polynomial horizon; its search region grows with the distance from the arc"
+	}
+	return "a two-body orbit has no polynomial horizon; its search region grows with the distance from the arc"
+}
+
+// orbitRecord returns the orbit part of fit --json; at are the instants of
+// the predictions asked for (their close approaches are included).
+func orbitRecord(of *fit.OrbitFit, at []astro.JD) orbitJSONOf {
 	el, sg := of.ElementsRecords()
 	r := orbitJSONOf{Elements: el, ElementsSigma: sg, Class: of.Class.String(), ClassReason: of.Class.Reason,
-		Start: of.Solution.Start, ElementsNote: of.Sigma.Note}
+		Start: of.Solution.Start, ElementsNote: of.Sigma.Note, Dynamics: of.Dynamics(), ElementsKind: "osculating at the epoch",
+		Encounters: encounterRecords(of, at)}
 	if of.Solution.NumMag > 0 {
 		r.H, r.HSigma, r.G = finite(of.Solution.H), finite(of.Solution.HSigma), finite(of.Solution.G)
 	}
 	return r
 }
 
-// writeOrbitText prints the orbit's elements, class and magnitude.
-func writeOrbitText(w io.Writer, of *fit.OrbitFit) {
+// writeOrbitText prints the orbit's elements, class and magnitude, and for
+// a perturbed orbit its dynamics and close approaches (through the arc and
+// to the instants at).
+func writeOrbitText(w io.Writer, of *fit.OrbitFit, at []astro.JD) {
 	p := func(format string, args ...any) { fmt.Fprintf(w, format, args...) }
 	el, sg := of.Elements, of.Sigma
-	p("\norbit: osculating heliocentric elements at %s TDB (ecliptic and equinox J2000), ± 1σ\n", astro.FormatISO8601(el.Epoch, 3))
+	if of.Dynamics() == "nbody" {
+		p("\norbit: osculating elements at epoch %s TDB, heliocentric (ecliptic and equinox J2000), ± 1σ\n", astro.FormatISO8601(el.Epoch, 3))
+		p("  dynamics: the Sun, the eight planets and the Moon (n-body integration); the elements osculate at the epoch and change along the orbit\n")
+	} else {
+		p("\norbit: osculating heliocentric elements at %s TDB (ecliptic and equinox J2000), ± 1σ\n", astro.FormatISO8601(el.Epoch, 3))
+	}
 	pm := func(name string, v, s float64, unit string, d int) {
 		p("  %-6s %s ± %s%s\n", name, fmtNum(v, d), fmtNum(s, d), unit)
 	}
@@ -103,4 +181,5 @@ func writeOrbitText(w io.Writer, of *fit.OrbitFit) {
 		p("  H = %.2f ± %.2f (G = %.2f, from %d magnitude%s)\n", s.H, s.HSigma, s.G, s.NumMag, plural(s.NumMag))
 	}
 	p("  start: %s\n", of.Solution.Start)
+	writeEncounters(w, "  ", encounterRecords(of, at))
 }

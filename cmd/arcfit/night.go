@@ -610,7 +610,11 @@ func runNightTarget(o nightOptions, io streams) error {
 	if err != nil {
 		return err
 	}
-	src, err := predictSource(predictOptions{modelOptions: o.modelOptions, elementsFile: o.elementsFile, name: o.name, changed: o.changed}, sites)
+	// The night's middle, to the day (0h UTC after the date): the horizon
+	// the orbit models' auto rule looks at.
+	mid := astro.CalendarToJD(d.Year, int(d.Month), float64(d.Day)+1, astro.Gregorian)
+	src, err := predictSource(predictOptions{modelOptions: o.modelOptions, elementsFile: o.elementsFile, name: o.name, changed: o.changed,
+		times: []astro.JD{{Day: mid, Scale: astro.UTC}}}, sites)
 	if err != nil {
 		return err
 	}
@@ -783,8 +787,27 @@ func (v targetView) writeText(w io.Writer) error {
 			return err
 		}
 	}
+	if es := v.encounters(); len(es) > 0 {
+		pf("\n")
+		writeEncounters(w, "", es)
+	}
 	pf("\n")
 	return v.nightView.writeText(w)
+}
+
+// encounters returns the close approaches of a perturbed orbit from its
+// epoch through the arc to the night's best time (or its middle): nil for
+// any other model.
+func (v targetView) encounters() []encounterJSON {
+	of := v.src.orbit()
+	if of == nil {
+		return nil
+	}
+	t := v.p.Sky.MoonTime
+	if v.p.Best != nil {
+		t = v.p.Best.UTC
+	}
+	return encounterRecords(of, []astro.JD{t})
 }
 
 // airmassText formats an airmass for the table ("-" below the horizon).
@@ -914,6 +937,10 @@ type nightPlanJSON struct {
 	Cautions           []string        `json:"cautions"`
 	Warnings           []string        `json:"warnings"`
 	Sky                json.RawMessage `json:"sky"`
+
+	// Encounters are the perturbed orbit's close approaches from its epoch
+	// through the arc to the night (model nbody only).
+	Encounters *[]encounterJSON `json:"encounters,omitempty"`
 }
 
 func (v targetView) writeJSON(w io.Writer) error {
@@ -927,6 +954,9 @@ func (v targetView) writeJSON(w io.Writer) error {
 		Cautions: append([]string{}, p.Cautions...), Warnings: append([]string{}, p.Warnings...)}
 	for _, x := range v.src.warnings {
 		obj.Warnings = append(obj.Warnings, oneLine(x))
+	}
+	if es := v.encounters(); es != nil {
+		obj.Encounters = &es
 	}
 	if !p.Observable {
 		code := p.Reason.String()

@@ -32,6 +32,9 @@ type predictOptions struct {
 	elementsFile string          // --elements: a published element set instead of observations
 	name         string          // --name: the element set in --elements
 	changed      map[string]bool // flags given on the command line
+	// times are the instants to predict for, when known before the fit:
+	// the auto rule of the orbit models looks at their horizon.
+	times []astro.JD
 }
 
 // maxPredictRows is the most instants one predict run computes: more is far
@@ -235,6 +238,9 @@ type predictionJSON struct {
 	// (arcsec, RA·cos δ east and Dec north), with --samples only.
 	Samples       [][2]float64 `json:"samples_offset_arcsec,omitempty"`
 	SampleWeights []float64    `json:"samples_weight,omitempty"`
+	// Encounters are the perturbed orbit's close approaches from its epoch
+	// through the arc to the time (model nbody only; one time).
+	Encounters *[]encounterJSON `json:"encounters,omitempty"`
 }
 
 // predictionRecord turns a prediction into its printed record, with the
@@ -283,6 +289,8 @@ type predictTableJSON struct {
 	Sigma     float64          `json:"sigma"`
 	FovArcmin float64          `json:"fov_arcmin"`
 	Rows      []predictionJSON `json:"rows"`
+	// Encounters: as predictionJSON's, through the last time (model nbody).
+	Encounters *[]encounterJSON `json:"encounters,omitempty"`
 }
 
 // fitOnlyFlags are the options that act on fitting and so mean nothing for
@@ -317,12 +325,24 @@ func runPredict(o predictOptions, io streams) error {
 	if err != nil {
 		return err
 	}
+	o.times = times
 	src, err := predictSource(o, sites)
 	if err != nil {
 		return err
 	}
-	if src.saved != nil && src.saved.Orbit != nil && isTerminal(io.Err) {
-		src.saved.Orbit.MonteCarlo.Progress = progressBar(io.Err, "sampling orbits")
+	var encounters *[]encounterJSON
+	if of := src.orbit(); of != nil {
+		if isTerminal(io.Err) {
+			of.MonteCarlo.Progress = progressBar(io.Err, "sampling orbits")
+		}
+		// A perturbed orbit integrates itself and its samples once to all
+		// the times.
+		if err := of.Prepare(times); err != nil {
+			return inputError(fmt.Errorf("%s: %v", src.file, err))
+		}
+		if es := encounterRecords(of, times); es != nil {
+			encounters = &es
+		}
 	}
 	site := siteForPrediction(o.site, src.sites)
 
@@ -346,9 +366,11 @@ func runPredict(o predictOptions, io streams) error {
 	var buf bytes.Buffer // whole output first: nothing half-written on error
 	switch {
 	case o.json && len(recs) == 1:
-		err = writeJSON(&buf, recs[0])
+		r := recs[0]
+		r.Encounters = encounters
+		err = writeJSON(&buf, r)
 	case o.json:
-		t := predictTableJSON{File: src.file, Model: src.model, Sigma: o.sigma, FovArcmin: o.fovArcmin, Rows: recs}
+		t := predictTableJSON{File: src.file, Model: src.model, Sigma: o.sigma, FovArcmin: o.fovArcmin, Rows: recs, Encounters: encounters}
 		if site != nil {
 			name := site.Name
 			t.Site = &name
@@ -358,6 +380,9 @@ func runPredict(o predictOptions, io streams) error {
 		err = writePredictCSV(&buf, recs)
 	default:
 		err = writePredictText(&buf, o, src, site, recs)
+		if err == nil && encounters != nil {
+			writeEncounters(&buf, "", *encounters)
+		}
 	}
 	if err != nil {
 		return err

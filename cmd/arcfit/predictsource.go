@@ -21,6 +21,15 @@ type predictInput struct {
 	warnings []string
 }
 
+// orbit returns the input's orbit model (nil for a sky-plane model or an
+// element set).
+func (in *predictInput) orbit() *fit.OrbitFit {
+	if in.saved == nil {
+		return nil
+	}
+	return in.saved.Orbit
+}
+
 // predict returns the prediction at utc for site.
 func (in *predictInput) predict(utc astro.JD, site *astro.Site) (fit.Prediction, error) {
 	if in.elements != nil {
@@ -97,7 +106,7 @@ func predictSource(o predictOptions, sites map[string]astro.Site) (*predictInput
 		if err != nil {
 			return nil, err
 		}
-		a, err := analyse(o.modelOptions, data, nil, nil, s, defaultSite)
+		a, err := analyse(o.modelOptions, data, horizonTimes(o.times), nil, s, defaultSite)
 		if err != nil {
 			return nil, err
 		}
@@ -109,8 +118,34 @@ func predictSource(o predictOptions, sites map[string]astro.Site) (*predictInput
 	in.model = sol.Model.Name()
 	in.header = fmt.Sprintf("%s: model %s, fitted to %d observations over %.2f d", o.file, sol.Model, sol.NumUsed, last-first)
 	if of := in.saved.Orbit; of != nil {
-		in.model = fit.Kepler().Name()
+		in.model = of.ModelName()
 		in.header = fmt.Sprintf("%s: model kepler, a two-body orbit (%s) fitted to %d observations over %.2f d", o.file, of.Class, of.Solution.NumUsed, last-first)
+		if of.Dynamics() == "nbody" {
+			in.header = fmt.Sprintf("%s: model nbody, an orbit perturbed by the planets (%s) fitted to %d observations over %.2f d; osculating elements at epoch %s TDB",
+				o.file, of.Class, of.Solution.NumUsed, last-first, astro.FormatISO8601(of.Elements.Epoch, 0))
+		}
 	}
 	return in, nil
+}
+
+// horizonTimes returns the earliest and the latest of the instants ts (nil
+// for none): what the model comparison needs to know of a prediction's
+// horizon, without predicting every model at every instant.
+func horizonTimes(ts []astro.JD) []astro.JD {
+	if len(ts) == 0 {
+		return nil
+	}
+	lo, hi := ts[0], ts[0]
+	for _, t := range ts[1:] {
+		if t.Sub(lo) < 0 {
+			lo = t
+		}
+		if t.Sub(hi) > 0 {
+			hi = t
+		}
+	}
+	if lo == hi {
+		return []astro.JD{lo}
+	}
+	return []astro.JD{lo, hi}
 }

@@ -278,7 +278,7 @@ type corrector struct {
 	obs    []Observation
 	inUsed []bool // Used as given
 	epoch  astro.JD
-	motion Motion // the dynamics of the start; nil for two-body
+	motion Motion     // the dynamics of the start; nil for two-body
 	r      []float64  // whitened residuals at the current iterate
 	rp, rm []float64  // buffers of the finite differences
 	jac    *mat.Dense // whitened Jacobian, columns scaled to unit length

@@ -139,12 +139,14 @@ ARCSEC = math.pi / 180.0 / 3600.0
 OBJECTS = [
     dict(name="Invented-MB2", stem="mb2", kind="outer main-belt asteroid passing Jupiter's longitude",
          epoch=2461437.5, elements=(3.1500, 0.0900, 4.00, 100.00, 150.00, 247.00),
-         h=15.5, g=0.15, end=(2027, 3, 14)),
+         h=14.0, g=0.15, end=(2027, 3, 14)),
     dict(name="Invented-JF2", stem="jf2", kind="Jupiter-family comet near Jupiter",
          epoch=2461800.5, elements=(3.6000, 0.4500, 3.00, 120.00, 230.00, 192.00),
          end=(2028, 4, 15)),
     dict(name="Invented-NEO2", stem="neo2", kind="near-Earth asteroid, Earth approach after the arcs",
-         epoch=2461640.5, state=None, h=20.5, g=0.15, end=(2027, 9, 25)),
+         epoch=2461640.5, h=20.5, g=0.15, end=(2027, 9, 25),
+         state=[1.2512705440363, -0.515074725387, -0.0965258273306,
+                0.000488461680813, 0.015126850431797, 0.005520444549197]),
 ]
 
 # Arcs: name, night offsets from the end night (days), what it is.
@@ -436,6 +438,31 @@ def fe(v):
     return "%.13e" % v
 
 
+NEO_CA = 2461719.5     # design instant of Invented-NEO2's flyby (2027-11-10 0h TDB)
+
+
+def design_neo(model, epoch):
+    """Invented-NEO2's epoch state: a straight-line flyby past the epv00
+    Earth at NEO_CA, 0.035 au on the asymptote, 6 km/s relative, relative
+    velocity along (-0.4 radial, +0.7 along-track, -0.5 normal) of the
+    Earth's orbital frame (chosen among a grid of directions for elongations
+    above 115 deg over the arcs); integrated back to the epoch with the
+    planets (DE405), rounded to 1e-13 au and 1e-15 au/day."""
+    pvh = erfa.epv00(NEO_CA, 0.0)[0]
+    e, ve = np.array(pvh["p"]), np.array(pvh["v"])
+    ur = e / np.linalg.norm(e)
+    un = np.cross(e, ve)
+    un /= np.linalg.norm(un)
+    ut = np.cross(un, ur)
+    w = -0.4 * ur + 0.7 * ut - 0.5 * un
+    w /= np.linalg.norm(w)
+    bdir = np.cross(w, un)
+    bdir /= np.linalg.norm(bdir)
+    y = np.concatenate([e + 0.035 * bdir, ve + w * 6.0 * 86400.0 / nref.AU_KM])
+    y0, _ = nref.step(model, y, NEO_CA - T0, epoch - T0, nref.RTOL, nref.ATOL)
+    return np.concatenate([np.round(y0[:3], 13), np.round(y0[3:], 15)])
+
+
 def epoch_state(ob):
     if ob.get("state") is not None:
         return np.array(ob["state"])
@@ -483,6 +510,9 @@ def main():
     gm, _, _ = nref.read_gms()
     src = nref.ErfaBodies() if design else nref.DE405Bodies()
     model = nref.Model(src, gm, "truth")
+    if "--design-neo" in sys.argv:
+        print("state=%r" % list(design_neo(nref.Model(nref.DE405Bodies(), gm, "truth"), OBJECTS[2]["epoch"])))
+        return
     rng = np.random.default_rng(SEED)
     geom_cols = ("time,site,utc_day,utc_frac,tt_day,tt_frac,tdb_day,tdb_frac,"
                  "obs_x_au,obs_y_au,obs_z_au,obs_vx_au_d,obs_vy_au_d,obs_vz_au_d,"
