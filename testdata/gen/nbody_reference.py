@@ -11,7 +11,7 @@ as
 
     /usr/bin/python3 testdata/gen/nbody_reference.py
 
-(about two minutes on one core). It writes ephem/nbody/testdata/reference_states.txt. A
+(under a minute on an idle core, two on a busy one). It writes ephem/nbody/testdata/reference_states.txt. A
 re-run gives a byte-identical file. Nothing needs the network; astropy is
 not used.
 
@@ -89,17 +89,18 @@ dense output (scanned every 0.05 day, refined by golden section).
 The orbits (invented; no real object)
 -------------------------------------
   MB   a main-belt asteroid, a = 2.7 au.
-  JFC  a Jupiter-family comet (q = 1.6, Q = 5.1 au) that passes Jupiter,
-       inside its Hill sphere, some 6 months after the epoch.
-  NEO  a near-Earth asteroid that passes the Earth at about 0.013 au some
-       5 months after the epoch.
+  JFC  a Jupiter-family comet (q = 1.6, Q = 5.1 au) that passes Jupiter at
+       0.308 au, inside its Hill sphere (0.355-0.370 au), 191 days after the
+       epoch.
+  NEO  a near-Earth asteroid that passes the Earth at 0.0125 au 150 days
+       after the epoch (just outside the Earth's Hill sphere, 0.010 au).
 Epoch 2027-05-15 0h TDB (JD 2461540.5); outputs every 5 days from one year
 before to one year after it (146 instants plus the epoch). MB and JFC are
 given by osculating heliocentric elements, ecliptic and equinox J2000
 (eps0 = 84381.448", R1(-eps0) to ICRS, as package ephem); NEO by its
 heliocentric ICRS state at the epoch, made by design_neo() (run with
 --design to see how): a straight-line flyby of 0.0125 au at 9 km/s past the
-epv00 Earth at JD 2461690.5, integrated back to the epoch with the planets,
+epv00 Earth at JD 2461690.5, integrated back to the epoch with the planets (model nbody),
 rounded to 1e-13 au and 1e-15 au/day.
 """
 
@@ -374,11 +375,11 @@ ORBITS = [
          elements=(2.7031, 0.1236, 7.84, 118.327, 54.913, 211.406)),
     dict(name="JFC", kind="Jupiter-family comet passing Jupiter (invented)",
          elements=(3.35, 0.5224, 4.20, 131.00, 212.00, 152.00)),
+    # The epoch state (ICRS au, au/day) printed by --design (design_neo), as written.
     dict(name="NEO", kind="near-Earth asteroid with a close approach to the Earth (invented)",
-         state=None),
+         state=[-0.7951582047551, 0.0868549497766, 0.1515353179221,
+                -0.000753878812866, -0.015663787775335, -0.012229467005168]),
 ]
-# NEO epoch state (ICRS au, au/day) from design_neo(), rounded.
-NEO_STATE = None
 
 
 def design_neo(model):
@@ -405,7 +406,7 @@ def design_neo(model):
 def initial_state(ob):
     if "elements" in ob:
         return elements_state(*ob["elements"])
-    return np.array(NEO_STATE)
+    return np.array(ob["state"])
 
 
 # ---------------------------------------------------------------------------
@@ -476,7 +477,6 @@ def radec(v):
 
 
 def main():
-    global NEO_STATE
     t_start = time.time()
     gm, gm_src, info = read_gms()
     erfa_src, de_src = ErfaBodies(), DE405Bodies()
@@ -484,7 +484,6 @@ def main():
     if "--design" in sys.argv:
         print("NEO_STATE =", repr(list(design_neo(m94))))
         return
-    NEO_STATE = NEO_STATE_VALUE
     models = [m94, Model(de_src, gm, "nbody_de405"), Model(None, gm, "twobody")]
     log, rows, enc_rows = [], [], []
     summary = []
@@ -574,12 +573,6 @@ def main():
             worst[b] = max(worst[b], v * AU_KM)
     src_diff = ", ".join("%s %.0f" % (b, worst[b]) for b in BODIES)
     write(gm, gm_src, info, log, rows, enc_text, time.time() - t_start, summary, src_diff)
-
-
-NEO_STATE_VALUE = [
-    -0.7951582047551, 0.0868549497766, 0.1515353179221,
-    -0.000753878812866, -0.015663787775335, -0.012229467005168,
-]
 
 
 def write(gm, gm_src, info, log, rows, enc_text, elapsed, summary, src_diff):

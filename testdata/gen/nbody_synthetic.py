@@ -9,7 +9,7 @@ Run from the repository root with Debian's interpreter:
         python3-casacore casacore-data-jpl-de405
     /usr/bin/python3 testdata/gen/nbody_synthetic.py
 
-(a few minutes on one core). A re-run gives byte-identical files. It writes,
+(about a minute on one core). A re-run gives byte-identical files. It writes,
 into fit/orbit/testdata/nbody_synthetic/ (each file with a provenance
 header):
 
