@@ -158,7 +158,11 @@ func readSimulateSource(o simulateOptions, sites map[string]astro.Site) (*simula
 		src := &simulateSource{target: saved, sites: merged, name: filepath.Base(path)}
 		first, last := saved.Solution.Track.ArcTT()
 		if saved.Orbit != nil {
-			src.description = fmt.Sprintf("fit file %s: its two-body orbit, fitted to observations over %.2f d", filepath.Base(path), last-first)
+			kind := "two-body orbit"
+			if saved.Orbit.Dynamics() == "nbody" {
+				kind = "perturbed orbit (Sun and planets)"
+			}
+			src.description = fmt.Sprintf("fit file %s: its %s, fitted to observations over %.2f d", filepath.Base(path), kind, last-first)
 		} else {
 			src.skyPlane = true
 			src.description = fmt.Sprintf("fit file %s: its sky-plane model %s, fitted to %d observations over %.2f d, extrapolated (the model's path, not the object's)",

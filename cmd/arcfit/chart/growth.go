@@ -46,7 +46,7 @@ func ComparisonCandidates(c *fit.Comparison) []Candidate {
 		out = append(out, Candidate{Name: name, Chosen: r.Chosen, Model: r.Solution})
 	}
 	if c.Orbit != nil {
-		out = append(out, Candidate{Name: "kepler", Chosen: c.Chosen == "kepler", Model: c.Orbit})
+		out = append(out, Candidate{Name: c.Orbit.ModelName(), Chosen: c.Chosen == c.Orbit.ModelName(), Model: c.Orbit})
 	}
 	return out
 }
