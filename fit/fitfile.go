@@ -107,6 +107,27 @@ func (f *SavedFit) Predict(utc astro.JD, site *astro.Site) (Prediction, error) {
 	return p, nil
 }
 
+// Position returns the astrometric ICRS place of the fit at the UTC instant
+// utc for the site (nil: the geocentre), without the search region: for an
+// orbit the fitted orbit's place ([OrbitFit.PredictLinear]; where
+// Predict's region is sampled its centre may differ from it by a fraction
+// of the region), for a sky-plane model the model's place, which is
+// Predict's. It makes a fit file a cheap plan.Positioner: a night's
+// altitudes, sampled every few minutes over many nights, need the place and
+// not the region.
+func (f *SavedFit) Position(utc astro.JD, site *astro.Site) (ra, dec astro.Angle, err error) {
+	var p Prediction
+	if f.Orbit != nil {
+		p, err = f.Orbit.PredictLinear(utc, site)
+	} else {
+		p, err = f.Solution.Predict(utc, site)
+	}
+	if err != nil {
+		return 0, 0, err
+	}
+	return p.RA, p.Dec, nil
+}
+
 // SaveFile writes the comparison's chosen solution, its reason, horizon and
 // comparison rows to the fit file path (schema FitFileSchema, JSON) — see
 // SaveFitFile.

@@ -115,11 +115,27 @@ func newOrbitFit(sol *orbit.Solution, obs []orbit.Observation, warns []string) (
 // orbit and of its sampled orbits to an instant near utc, then by a short
 // two-body step (see [OrbitFit.Prepare] and nbodypredict.go).
 func (f *OrbitFit) Predict(utc astro.JD, site *astro.Site) (Prediction, error) {
+	return f.predict(utc, site, true)
+}
+
+// PredictLinear is [OrbitFit.Predict] without the sampled regions: the
+// fitted orbit's place and the linear propagation of its covariance,
+// whatever the sampling rule would ask for. Where Predict's region is
+// sampled, its centre (the samples' weighted mean) may differ from this
+// place by a fraction of the region. It is the cheap answer for where the
+// object stands on the sky (a night's altitudes); the search region to print
+// is Predict's.
+func (f *OrbitFit) PredictLinear(utc astro.JD, site *astro.Site) (Prediction, error) {
+	return f.predict(utc, site, false)
+}
+
+// predict is Predict, with the sampled regions when sampling is true.
+func (f *OrbitFit) predict(utc astro.JD, site *astro.Site, sampling bool) (Prediction, error) {
 	if utc.Scale != astro.UTC {
 		return Prediction{}, fmt.Errorf("fit: prediction time must be UTC, got %v", utc.Scale)
 	}
 	if f.Solution.State.Motion != nil {
-		return f.predictNBody(utc, site)
+		return f.predictNBody(utc, site, sampling)
 	}
 	var st *astro.Site
 	if site != nil {
@@ -131,7 +147,7 @@ func (f *OrbitFit) Predict(utc astro.JD, site *astro.Site) (Prediction, error) {
 		return Prediction{}, err
 	}
 	lin := predictionOfSky(sp, st)
-	if f.NoSampling {
+	if f.NoSampling || !sampling {
 		return lin, nil
 	}
 	method := orbit.SamplingCovariance

@@ -228,7 +228,7 @@ func (f *OrbitFit) samplingMethod(utc astro.JD) string {
 // ([orbit.Solution.MovedTo]; its covariance propagated through the
 // integration), and, when the sampling rule asks for it, the region of the
 // sampled orbits integrated to the anchor, each then stepped to utc.
-func (f *OrbitFit) predictNBody(utc astro.JD, site *astro.Site) (Prediction, error) {
+func (f *OrbitFit) predictNBody(utc astro.JD, site *astro.Site, sampling bool) (Prediction, error) {
 	var st *astro.Site
 	if site != nil {
 		c := *site
@@ -249,7 +249,7 @@ func (f *OrbitFit) predictNBody(utc astro.JD, site *astro.Site) (Prediction, err
 	lin := predictionOfSky(sp, st)
 	lin.Model = NBody().Name()
 	method := f.samplingMethod(utc)
-	if method == orbit.SamplingLinear {
+	if method == orbit.SamplingLinear || !sampling {
 		return lin, nil
 	}
 	set, err := f.movedSamples(method, k)

@@ -12,7 +12,8 @@ import (
 // Target is anything that predicts where a moving object is: its astrometric
 // ICRS place for a site (nil: the geocentre) at a UTC instant, with the search
 // region's covariance, the rate of motion and, when known, the magnitude and
-// the validity horizon. *fit.SavedFit and [ElementsTarget] satisfy it.
+// the validity horizon. *fit.SavedFit and [ElementsTarget] satisfy it, and
+// [Positioner] too.
 type Target interface {
 	Predict(utc astro.JD, site *astro.Site) (fit.Prediction, error)
 }
@@ -21,7 +22,9 @@ type Target interface {
 // place alone, without the covariance and the rate. [Night] samples the
 // target's altitude through a whole night; a target whose full prediction is
 // costly (a covariance by numerical differences) can offer its place this
-// way. The place must be the one Predict gives.
+// way. The place must be the one Predict gives, or, where Predict's region
+// comes from sampled orbits, the fitted orbit's place, which lies inside
+// that region (*fit.SavedFit's Position).
 type Positioner interface {
 	Position(utc astro.JD, site *astro.Site) (ra, dec astro.Angle, err error)
 }
@@ -49,3 +52,9 @@ func (e ElementsTarget) Position(utc astro.JD, site *astro.Site) (ra, dec astro.
 	}
 	return pl.RA, pl.Dec, nil
 }
+
+// Both targets of the package's callers offer the cheap place.
+var (
+	_ Positioner = (*fit.SavedFit)(nil)
+	_ Positioner = ElementsTarget{}
+)
