@@ -216,7 +216,7 @@ def cmd_report(d):
             "coefficients within %.1e relative (want 1e-9): %s" % (rel, ok))
         lines.append("| poly2 fit, %s obs (numpy: lstsq alone) | | %s | %.2f | | | |" % (
             f"{int(n):,}", fmt_s(p["lstsq_median_s"]), p["lstsq_median_s"] / g["median_s"]))
-        notes.append("numpy: %s, %s" % (p["numpy"], p["blas"]))
+        notes.append("%s, %s" % (p["numpy"], p["blas"]))
     g, p = load("go_ephem.json"), load("py_ephem.json")
     rows = g["n"]
     ga = np.fromfile(os.path.join(d, "ephem.f64"), "<f8").reshape(2, rows)
@@ -231,13 +231,15 @@ def cmd_report(d):
     pa = np.fromfile(os.path.join(d, "sunmoon.peer.f64"), "<f8").reshape(4, rows)
     ss = sep_arcsec(ga[2], ga[3], pa[0], pa[1])
     sm = sep_arcsec(ga[6], ga[7], pa[2], pa[3])
-    # Wants: the Sun within 0.1″ (arcfit's Sun is within 0.05″ of ERFA's epv00,
-    # which astropy's builtin ephemeris uses), the Moon within 10″ (arcfit's
-    # Meeus ch. 47 series, about 10″).
-    ok = "OK" if ss.max() <= 0.1 and sm.max() <= 10.0 else "DIFFERENT"
+    # Wants: "a few arcseconds" for both (the Moon series of arcfit, Meeus
+    # ch. 47, is good to about 10″; its Sun to 0.05″ of ERFA's epv00). The
+    # peer's Sun carries up to about 0.6″ of its own: astropy applies its
+    # light-deflection step to the Sun's own light (against ERFA's
+    # aberration alone, ab, arcfit's apparent Sun agrees to 0.02″).
+    ok = "OK" if ss.max() <= 3.0 and sm.max() <= 10.0 else "DIFFERENT"
     row("Sun + Moon tables, %s instants each (astropy %s get_body)" % (f"{rows:,}", p["astropy"]), g, p,
-        "GCRS RA/Dec: Sun worst %.3f″ (want ≤ 0.1″), Moon median %.3f″, worst %.3f″ (want ≤ 10″): %s" % (
-            ss.max(), np.median(sm), sm.max(), ok))
+        "GCRS RA/Dec: Sun median %.3f″, worst %.3f″ (want ≤ 3″), Moon median %.3f″, worst %.3f″ (want ≤ 10″): %s" % (
+            np.median(ss), ss.max(), np.median(sm), sm.max(), ok))
     print("\n".join(lines))
     print()
     print("ratio: the peer's median time over arcfit's (above 1: arcfit is faster); wall = elapsed time of the")
