@@ -311,6 +311,9 @@ func runFit(o fitOptions, io streams) error {
 	if err := checkChartFile("compare-chart", o.compareChart); err != nil {
 		return err
 	}
+	if err := checkOutPath("save", o.save); err != nil { // before any work or chart is written
+		return err
+	}
 	var at []astro.JD
 	if o.at != "" {
 		t, err := parseInstant("--at", o.at)
@@ -371,7 +374,7 @@ func runFit(o fitOptions, io streams) error {
 	}
 	if o.save != "" {
 		if err := fit.SaveFitFile(o.save, a.saved); err != nil {
-			return err
+			return inputError(err)
 		}
 	}
 	for _, w := range a.warnings {

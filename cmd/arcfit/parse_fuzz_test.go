@@ -17,15 +17,17 @@ import (
 // value is in range, finite, and written back in the option's own syntax it
 // reads back the same.
 
-// checkUsage checks that err is a one-line *usageError.
+// checkUsage checks that err is a *usageError with a message: run prints
+// it on one line (oneLine folds any line break the user's text brought in,
+// as a step of "\n1ms" does), and that line must say something.
 func checkUsage(t *testing.T, what string, err error) {
 	t.Helper()
 	var ue *usageError
 	if !errors.As(err, &ue) {
 		t.Fatalf("%s: error %T %v is not a usage error", what, err, err)
 	}
-	if msg := err.Error(); msg == "" || strings.ContainsAny(msg, "\n\r") {
-		t.Fatalf("%s: error not one line: %q", what, msg)
+	if msg := oneLine(err.Error()); msg == "" || strings.ContainsAny(msg, "\n\r") {
+		t.Fatalf("%s: error %q prints as %q", what, err.Error(), msg)
 	}
 }
 

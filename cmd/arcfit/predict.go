@@ -117,7 +117,7 @@ func predictFlags(o *predictOptions, stderr io.Writer) *pflag.FlagSet {
 // (design.md).
 const (
 	minInstantJD = 2378496.5 // 1800-01-01 0h
-	maxInstantJD = 2524593.5 // 2200-01-01 0h
+	maxInstantJD = 2524958.5 // 2201-01-01 0h: the whole of 2200, as ephem.TableLastJD
 )
 
 // instantWant says what a time option takes.

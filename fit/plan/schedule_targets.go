@@ -76,9 +76,20 @@ func (t TargetLine) Where() string { return fmt.Sprintf("%s:%d", t.Source, t.Lin
 func (t TargetLine) String() string {
 	s := t.Kind.String() + " " + quoteWord(t.File)
 	if t.Name != "" {
-		s += " " + quoteWord(t.Name)
+		s += " " + nameWord(t.Name)
 	}
 	return s
+}
+
+// nameWord writes an element set's name, the rest of its line: as
+// quoteWord does, except that a name holding a '"' after its first character
+// is written as it is, for it cannot be quoted (the format has no escape)
+// and reads back unquoted (the only way such a name is read).
+func nameWord(s string) string {
+	if strings.Contains(s, `"`) && !strings.HasPrefix(s, `"`) {
+		return s
+	}
+	return quoteWord(s)
 }
 
 // quoteWord quotes s when it holds blanks or starts with a quote.
