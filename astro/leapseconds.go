@@ -56,11 +56,25 @@ func isoDate(mjd int64) string {
 	return fmt.Sprintf("%04d-%02d-%02d", y, m, d)
 }
 
-// staleLeapError returns the warning for a UTC day beyond the table.
+// staleLeapError returns the warning for a UTC day beyond the table. Its
+// message is formatted only when asked for: a table of many instants beyond
+// the table's date gets this warning for every instant and reads it once.
 func staleLeapError(mjd int64, dat float64) error {
-	return fmt.Errorf("astro: %s is beyond the leap-second table, known good until %s; TAI−UTC = %g s assumed (update the table): %w",
-		isoDate(mjd), LeapSecondsValidUntilDate, dat, ErrStaleTable)
+	return &staleLeapWarning{mjd: mjd, dat: dat}
 }
+
+// staleLeapWarning is the error of [staleLeapError]; it wraps ErrStaleTable.
+type staleLeapWarning struct {
+	mjd int64
+	dat float64
+}
+
+func (w *staleLeapWarning) Error() string {
+	return fmt.Sprintf("astro: %s is beyond the leap-second table, known good until %s; TAI−UTC = %g s assumed (update the table): %v",
+		isoDate(w.mjd), LeapSecondsValidUntilDate, w.dat, ErrStaleTable)
+}
+
+func (w *staleLeapWarning) Unwrap() error { return ErrStaleTable }
 
 // checkLeapDay returns nil for a UTC day covered by the table, a warning
 // wrapping ErrStaleTable for a day on or after the table's expiry, and an error
