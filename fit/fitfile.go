@@ -992,6 +992,21 @@ func (r *fitFileReader) build(ff *fitFile) (*SavedFit, error) {
 		sol.Residuals = append(sol.Residuals, Residual{ObsIndex: rr.ObsIndex, Line: rr.Line, UTC: utc,
 			DRAArcsec: rr.DRAArcsec, DDecArcsec: rr.DDecArcsec, Chi2: rr.Chi2, Flagged: rr.Flagged, Used: rr.Used})
 	}
+	// The model must pass near its own used points: parameters far out of
+	// range (a damaged file) would otherwise predict a finite but meaningless
+	// place. 0.1 rad (5.7°) lies far above any residual and any diurnal
+	// parallax (an Earth radius, 4.26e-5 au, seen from the Moon's 0.0026 au
+	// is 0.017 rad).
+	for i, p := range tr.Points {
+		if !p.Used {
+			continue
+		}
+		xi, eta := sol.geocentric(p.T)
+		if d := math.Hypot(xi-p.Xi, eta-p.Eta); !(d <= 0.1) {
+			return nil, r.fail("params", "parameters whose model passes within 0.1 rad of the used points",
+				fmt.Sprintf("%.3g rad from points[%d]", d, i), ErrFitFile)
+		}
+	}
 	out := &SavedFit{Solution: sol, Reason: ff.Reason, HorizonDays: valueOr(ff.HorizonDays),
 		HorizonBeforeDays: valueOr(ff.HorizonBefore), HorizonAfterDays: valueOr(ff.HorizonAfter),
 		HorizonRule: ff.HorizonRule, Notes: ff.ModelNotes}

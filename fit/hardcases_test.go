@@ -233,3 +233,34 @@ func TestSpanEndArcs(t *testing.T) {
 		}
 	}
 }
+
+// TestDamagedParameters: a fit whose parameters are finite but absurd (one
+// of 3.9e23, as FuzzParseFitFile made) is refused by the fit-file reader
+// (its model does not pass near its own points), and Predict, given such a
+// solution directly, returns an error instead of a NaN position.
+func TestDamagedParameters(t *testing.T) {
+	tr, _ := demoTrack(t)
+	sol, err := Fit(tr, Poly(2), Settings{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	bad := *sol
+	bad.Params = append([]float64{}, sol.Params...)
+	bad.Params[4] = 3.8717700474101864e+23
+	data, err := MarshalFitFile(&SavedFit{Solution: &bad, HorizonDays: math.NaN(), HorizonBeforeDays: math.NaN(), HorizonAfterDays: math.NaN()})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := ParseFitFile(data, "damaged.json"); err == nil || !strings.Contains(err.Error(), "params") || !strings.HasPrefix(err.Error(), "damaged.json:") {
+		t.Errorf("damaged fit file read: %v", err)
+	}
+	utc := tr.EpochTT
+	utc.Scale = astro.UTC
+	site := astro.Site{Lat: astro.AngleFromDegrees(89), Lon: astro.AngleFromDegrees(180)}
+	for _, st := range []*astro.Site{nil, &site} {
+		p, err := bad.Predict(utc, st)
+		if err == nil && !finitePrediction(p) {
+			t.Errorf("site %v: Predict gave %+v and no error", st, p)
+		}
+	}
+}

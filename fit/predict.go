@@ -153,7 +153,23 @@ func (s *Solution) Predict(utc astro.JD, site *astro.Site) (Prediction, error) {
 	dN := jinv[1][0]*dxi + jinv[1][1]*deta
 	pr.RateArcsecPerMin = astro.Angle(math.Hypot(dE, dN)).Arcseconds()
 	pr.RatePA = astro.Angle(math.Atan2(dE, dN)).Normalized()
+	if !predictionFinite(pr) {
+		return Prediction{}, fmt.Errorf("fit: the %s model gives no finite position at %s (its parameters are out of range)", pr.Model, astro.FormatISO8601(utc, 0))
+	}
 	return pr, nil
+}
+
+// predictionFinite reports whether the place, the covariance and the rate of
+// a prediction are finite: parameters far out of range (a damaged fit file)
+// can overflow the projection or the parallax, and a NaN must not pass for a
+// position.
+func predictionFinite(p Prediction) bool {
+	for _, x := range []float64{float64(p.RA), float64(p.Dec), p.CovArcsec2[0][0], p.CovArcsec2[0][1], p.CovArcsec2[1][1], p.RateArcsecPerMin, float64(p.RatePA)} {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return false
+		}
+	}
+	return true
 }
 
 // topocentric returns the predicted ξ, η at tDays (TT − EpochTT) for site st
