@@ -314,19 +314,7 @@ func runFit(o fitOptions, io streams) error {
 	if err := checkOutPath("save", o.save); err != nil { // before any work or chart is written
 		return err
 	}
-	var at []astro.JD
-	if o.at != "" {
-		t, err := parseInstant("--at", o.at)
-		if err != nil {
-			return err
-		}
-		at = []astro.JD{t}
-	}
-	sites, err := readSites(o.sitesFile)
-	if err != nil {
-		return err
-	}
-	defaultSite, sites, err := resolveSiteFlag(o.site, sites)
+	at, sites, defaultSite, err := fitInputs(o)
 	if err != nil {
 		return err
 	}
@@ -820,4 +808,25 @@ func ptrNum(v *float64, d int) string {
 // wrapIndent wraps s at width and indents the continuation lines.
 func wrapIndent(s string, width int, indent string) string {
 	return strings.ReplaceAll(wrap(s, width), "\n", "\n"+indent)
+}
+
+// fitInputs parses --at and reads the sites of o (--sites, then --site
+// resolved against them), as every fit run, of one file or many, needs them.
+func fitInputs(o fitOptions) (at []astro.JD, sites map[string]astro.Site, defaultSite string, err error) {
+	if o.at != "" {
+		t, err := parseInstant("--at", o.at)
+		if err != nil {
+			return nil, nil, "", err
+		}
+		at = []astro.JD{t}
+	}
+	sites, err = readSites(o.sitesFile)
+	if err != nil {
+		return nil, nil, "", err
+	}
+	defaultSite, sites, err = resolveSiteFlag(o.site, sites)
+	if err != nil {
+		return nil, nil, "", err
+	}
+	return at, sites, defaultSite, nil
 }

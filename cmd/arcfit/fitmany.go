@@ -128,19 +128,7 @@ func runFitMany(o fitOptions, args []string, io streams) error {
 	if err := checkSigma(o.sigma); err != nil {
 		return err
 	}
-	var at []astro.JD
-	if o.at != "" {
-		t, err := parseInstant("--at", o.at)
-		if err != nil {
-			return err
-		}
-		at = []astro.JD{t}
-	}
-	sites, err := readSites(o.sitesFile)
-	if err != nil {
-		return err
-	}
-	defaultSite, sites, err := resolveSiteFlag(o.site, sites)
+	at, sites, defaultSite, err := fitInputs(o)
 	if err != nil {
 		return err
 	}
