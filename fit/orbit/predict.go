@@ -153,19 +153,7 @@ func (s *Solution) Predict(utc astro.JD, site *astro.Site) (SkyPrediction, error
 		jac[0][k] = (ep - em) / (2 * h[k])
 		jac[1][k] = (np - nm) / (2 * h[k])
 	}
-	as2 := astro.Arcsecond.Radians() * astro.Arcsecond.Radians()
-	for a := 0; a < 2; a++ {
-		for b := a; b < 2; b++ {
-			v := 0.0
-			for i := 0; i < 6; i++ {
-				for j := 0; j < 6; j++ {
-					v += jac[a][i] * s.Cov.At(i, j) * jac[b][j]
-				}
-			}
-			pr.CovArcsec2[a][b] = v / as2
-			pr.CovArcsec2[b][a] = v / as2
-		}
-	}
+	pr.CovArcsec2 = skyCovArcsec2(jac, s.Cov)
 
 	// Rate over ±1 min.
 	var ends [2][2]float64
@@ -281,19 +269,7 @@ func (s *Solution) predictFrom(p *Path, k int, utc astro.JD, st *astro.Site, g e
 		dc := r3.Vec{X: du[0][j], Y: du[1][j], Z: du[2][j]}
 		jac[0][j], jac[1][j] = r3.Dot(e, dc), r3.Dot(n, dc)
 	}
-	as2 := astro.Arcsecond.Radians() * astro.Arcsecond.Radians()
-	for a := 0; a < 2; a++ {
-		for b := a; b < 2; b++ {
-			v := 0.0
-			for i := 0; i < 6; i++ {
-				for j := 0; j < 6; j++ {
-					v += jac[a][i] * s.Cov.At(i, j) * jac[b][j]
-				}
-			}
-			pr.CovArcsec2[a][b] = v / as2
-			pr.CovArcsec2[b][a] = v / as2
-		}
-	}
+	pr.CovArcsec2 = skyCovArcsec2(jac, s.Cov)
 	var ends [2][2]float64
 	for i, dt := range [2]float64{predictRateStepDays, -predictRateStepDays} {
 		gi, err := geo(utc.AddDays(dt))
@@ -375,4 +351,26 @@ func (s *Solution) MovedTo(tdbs []astro.JD) ([]*Solution, *Path, error) {
 		out[k] = &m
 	}
 	return out, p, nil
+}
+
+// skyCovArcsec2 returns the 2×2 sky covariance J·C·Jᵀ (arcsec²) of the 6×6
+// state covariance cov (au, au/day) through the Jacobian jac of the tangent-
+// plane place (radians) with respect to the state: the linear propagation of
+// a covariance (Press et al., Numerical Recipes, 3rd ed. (2007), §15.6).
+func skyCovArcsec2(jac [2][6]float64, cov *mat.SymDense) [2][2]float64 {
+	as2 := astro.Arcsecond.Radians() * astro.Arcsecond.Radians()
+	var c [2][2]float64
+	for a := 0; a < 2; a++ {
+		for b := a; b < 2; b++ {
+			v := 0.0
+			for i := 0; i < 6; i++ {
+				for j := 0; j < 6; j++ {
+					v += jac[a][i] * cov.At(i, j) * jac[b][j]
+				}
+			}
+			c[a][b] = v / as2
+			c[b][a] = v / as2
+		}
+	}
+	return c
 }
