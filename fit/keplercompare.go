@@ -12,24 +12,14 @@ import (
 // keplerRow fits the two-body orbit for the comparison and cross-validates
 // it night by night, in the same terms as the sky-plane rows.
 func keplerRow(tr *Track, s Settings) ModelRow {
-	m := Kepler()
-	row := ModelRow{Model: m.Name(), Spec: m, NumParams: 6, RMSArcsec: math.NaN(), Chi2DoF: math.NaN(), BIC: math.NaN(),
-		CVErrorArcsec: math.NaN(), CVSEArcsec: math.NaN(), CVNormRMS: math.NaN()}
 	of, err := FitOrbit(tr, s)
-	if err != nil {
-		row.Err = err.Error()
-		return row
-	}
-	sol := of.Solution
-	row.Orbit = of
-	row.RMSArcsec = sol.RMSArcsec
-	row.Chi2DoF = sol.Chi2DoF
-	if n := 2 * sol.NumUsed; n > 0 {
-		row.BIC = sol.Chi2 + 6*math.Log(float64(n))
-	}
-	row.CV = keplerCrossValidate(tr, of, s)
-	row.CVErrorArcsec, row.CVSEArcsec, row.CVNormRMS = row.CV.RMSArcsec, row.CV.SEArcsec, row.CV.NormRMS
-	return row
+	return orbitRow(tr, Kepler(), of, err, determineFold)
+}
+
+// determineFold fits a fold's two-body orbit as the whole track's is fitted
+// ([orbit.Determine]), without rejecting outliers.
+func determineFold(obs []orbit.Observation) (*orbit.Solution, error) {
+	return orbit.Determine(obs, orbit.Options{KeepAll: true})
 }
 
 // orbitRow returns the comparison row of the orbit fit of (err when it
@@ -57,21 +47,14 @@ func orbitRow(tr *Track, m Model, of *OrbitFit, err error, fold foldFit) ModelRo
 // with a night's Used cleared).
 type foldFit func(obs []orbit.Observation) (*orbit.Solution, error)
 
-// keplerCrossValidate leaves out each night in turn, determines the orbit
-// from the others ([orbit.Determine], as for the whole track) and predicts
+// orbitCrossValidate leaves out each night in turn, fits the orbit to the
+// others with fold ([determineFold] for the two-body orbit) and predicts
 // the observations of the night left out: the misses and their normalised
 // χ² against the observation's covariance plus the fold's linear prediction
 // covariance, pooled as [CrossValidate] pools them (RMS of the misses, its
 // standard error from the spread of the folds' mean squares, the normalised
 // RMS). With fewer than [MinCVNights] nights it is not available (NaN).
-func keplerCrossValidate(tr *Track, of *OrbitFit, s Settings) CrossValidation {
-	return orbitCrossValidate(tr, of, func(obs []orbit.Observation) (*orbit.Solution, error) {
-		return orbit.Determine(obs, orbit.Options{KeepAll: true})
-	})
-}
-
-// orbitCrossValidate is [keplerCrossValidate] with the fold's orbit fitted
-// by fold; the fold's predictions of the night left out come from
+// The fold's predictions of the night left out come from
 // orbit.Solution.PredictAll for each site (one integration per site for a
 // perturbed orbit).
 func orbitCrossValidate(tr *Track, of *OrbitFit, fold foldFit) CrossValidation {
